@@ -1,0 +1,263 @@
+//! The engine: owns the ephemeris store, the configuration and what it remembers between
+//! epochs, all in fixed memory. Time is passed in with each epoch; nothing reads a clock.
+
+use crate::config::Config;
+use crate::ephemeris::{BroadcastEphemeris, EphemerisError};
+use crate::iono::IonoCoefficients;
+use crate::observation::{Epoch, Observation};
+use crate::sat::SPEED_OF_LIGHT;
+use crate::solution::{FixKind, FixOutcome, SatStatus, SatUse, Solution};
+use crate::solve::{solve, Candidate, Outcome, Setup};
+use crate::store::{EphemerisStore, Ingested, StoredEphemeris};
+use crate::time::GnssTime;
+use heapless::Vec;
+
+/// Why an epoch was refused as a whole.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[non_exhaustive]
+pub enum EpochError {
+    /// The epoch's time is not after the previous epoch's: the engine keeps time monotonic
+    /// so that no state is applied out of order. Call [`Engine::reset_time`] after a
+    /// deliberate rewind (e.g. a replay restarting).
+    TimeNotIncreasing {
+        /// Time of the previous epoch.
+        previous: GnssTime,
+        /// Time of the refused epoch.
+        got: GnssTime,
+    },
+}
+
+/// The last 3-D fix, kept to seed the next solution and to hold height for a 2-D fix.
+#[derive(Clone, Copy, Debug, PartialEq)]
+struct Anchor {
+    time: GnssTime,
+    ecef_m: [f64; 3],
+    height_m: f64,
+}
+
+/// The positioning engine for epochs of up to `N` observations and up to `EPH` stored
+/// ephemerides. Memory is fixed: see `size_of` figures in the README. It can live in a
+/// `static` (construction is `const`).
+#[derive(Clone, Debug)]
+pub struct Engine<const N: usize, const EPH: usize> {
+    config: Config,
+    store: EphemerisStore<EPH>,
+    iono: Option<IonoCoefficients>,
+    last_time: Option<GnssTime>,
+    anchor: Option<Anchor>,
+}
+
+impl<const N: usize, const EPH: usize> Engine<N, EPH> {
+    /// An engine with `config`, no ephemerides and no history.
+    pub const fn new(config: Config) -> Self {
+        const { assert!(N >= 4, "an epoch must hold at least four observations") };
+        Engine {
+            config,
+            store: EphemerisStore::new(),
+            iono: None,
+            last_time: None,
+            anchor: None,
+        }
+    }
+
+    /// The configuration in force.
+    pub fn config(&self) -> &Config {
+        &self.config
+    }
+
+    /// Replaces the configuration (history and ephemerides are kept).
+    pub fn set_config(&mut self, config: Config) {
+        self.config = config;
+    }
+
+    /// The ephemeris store.
+    pub fn store(&self) -> &EphemerisStore<EPH> {
+        &self.store
+    }
+
+    /// Validates and stores a broadcast ephemeris (see [`EphemerisStore::ingest`]).
+    ///
+    /// # Errors
+    /// What was wrong with the record, or a full store handing it back.
+    pub fn ingest_ephemeris(
+        &mut self,
+        eph: BroadcastEphemeris,
+    ) -> Result<Ingested, EphemerisError> {
+        self.store.ingest(eph)
+    }
+
+    /// Sets the broadcast ionosphere coefficients. Non-finite coefficients are ignored
+    /// (the previous ones stay) and `false` is returned.
+    pub fn set_ionosphere(&mut self, iono: IonoCoefficients) -> bool {
+        if iono.is_finite() {
+            self.iono = Some(iono);
+        }
+        iono.is_finite()
+    }
+
+    /// Forgets the time of the last epoch and the last fix, e.g. before replaying again.
+    pub fn reset_time(&mut self) {
+        self.last_time = None;
+        self.anchor = None;
+    }
+
+    /// Computes the solution of one epoch.
+    ///
+    /// # Errors
+    /// [`EpochError::TimeNotIncreasing`] when the epoch is not later than the previous one.
+    /// Every other problem is reported inside the [`Solution`]: per observation in
+    /// [`SatUse::status`], and for the epoch as [`FixOutcome::NoFix`].
+    pub fn process(&mut self, epoch: &Epoch<N>) -> Result<Solution<N>, EpochError> {
+        if let Some(previous) = self.last_time {
+            if epoch.time <= previous {
+                return Err(EpochError::TimeNotIncreasing {
+                    previous,
+                    got: epoch.time,
+                });
+            }
+        }
+        self.last_time = Some(epoch.time);
+
+        let mut sats: Vec<SatUse, N> = Vec::new();
+        let mut cands: Vec<Candidate, N> = Vec::new();
+        // Index into `sats` of each candidate.
+        let mut cand_index: Vec<usize, N> = Vec::new();
+        for (i, obs) in epoch.obs.iter().enumerate() {
+            let earlier = epoch.obs.iter().take(i);
+            let status = match self.screen(obs, earlier, epoch.time) {
+                Ok(c) => {
+                    // Both capacities are N and there is at most one push per observation.
+                    if cands.push(c).is_ok() {
+                        let _ = cand_index.push(i);
+                    }
+                    SatStatus::NotSolved
+                }
+                Err(s) => s,
+            };
+            let _ = sats.push(SatUse {
+                sat: obs.sat,
+                signal: obs.signal,
+                elevation_deg: None,
+                azimuth_deg: None,
+                residual_m: None,
+                sigma_m: None,
+                status,
+            });
+        }
+
+        let hold_height_m = self.anchor.and_then(|a| {
+            (epoch.time.seconds_since(a.time) <= self.config.altitude_hold_max_age_s)
+                .then_some(a.height_m)
+        });
+        let setup = Setup {
+            config: &self.config,
+            iono: self.iono.as_ref(),
+            tow_s: epoch.time.tow_s(),
+            seed: self.anchor.map_or([0.0; 3], |a| a.ecef_m),
+            hold_height_m,
+        };
+        let mut outcomes: Vec<Outcome, N> = Vec::new();
+        for _ in 0..cands.len() {
+            let _ = outcomes.push(Outcome::default());
+        }
+        let result = solve(&cands, &setup, &mut outcomes);
+
+        for (o, &i) in outcomes.iter().zip(cand_index.iter()) {
+            if let Some(s) = sats.get_mut(i) {
+                if let Some((el, az)) = o.el_az {
+                    s.elevation_deg = Some(el.to_degrees() as f32);
+                    s.azimuth_deg = Some(az.to_degrees() as f32);
+                }
+                if o.masked {
+                    s.status = SatStatus::BelowMask;
+                } else if o.used && result.is_ok() {
+                    s.status = SatStatus::Used;
+                    s.residual_m = Some(o.residual_m);
+                    s.sigma_m = Some(o.sigma_m as f32);
+                }
+            }
+        }
+
+        let outcome = match result {
+            Ok(fix) => {
+                if fix.kind == FixKind::ThreeD {
+                    self.anchor = Some(Anchor {
+                        time: epoch.time,
+                        ecef_m: fix.ecef_m,
+                        height_m: fix.geodetic.height_m,
+                    });
+                }
+                FixOutcome::Fix(fix)
+            }
+            Err(reason) => FixOutcome::NoFix(reason),
+        };
+        Ok(Solution {
+            time: epoch.time,
+            outcome,
+            sats,
+        })
+    }
+
+    /// Checks one observation and, if usable, computes its satellite's state at transmit
+    /// time. Returns the exclusion reason otherwise.
+    fn screen<'a>(
+        &self,
+        obs: &Observation,
+        mut earlier: impl Iterator<Item = &'a Observation>,
+        t_rx: GnssTime,
+    ) -> Result<Candidate, SatStatus> {
+        let cfg = &self.config;
+        let system = obs.sat.system;
+        if !cfg.uses(system) {
+            return Err(SatStatus::SystemDisabled);
+        }
+        if cfg.signal(system) != Some(obs.signal) {
+            return Err(SatStatus::SignalNotUsed);
+        }
+        let pr = obs.pseudorange_m;
+        if pr == 0.0 {
+            return Err(SatStatus::NotMeasured);
+        }
+        if !pr.is_finite() || !(cfg.pseudorange_span_m.0..=cfg.pseudorange_span_m.1).contains(&pr) {
+            return Err(SatStatus::BadPseudorange);
+        }
+        if earlier.any(|e| e.sat == obs.sat && e.signal == obs.signal) {
+            return Err(SatStatus::Duplicate);
+        }
+        let cn0 = obs.cn0_dbhz.filter(|c| c.is_finite() && *c > 0.0);
+        if let Some(c) = cn0 {
+            if c < cfg.cn0_mask_dbhz {
+                return Err(SatStatus::WeakSignal);
+            }
+        }
+        let held: &StoredEphemeris = self.store.get(obs.sat).ok_or(SatStatus::NoEphemeris)?;
+        if held.eph.health != 0 {
+            return Err(SatStatus::Unhealthy);
+        }
+        let tau = pr / SPEED_OF_LIGHT;
+        let dt_toe = t_rx.seconds_since(held.toe) - tau;
+        if dt_toe.abs() > cfg.max_ephemeris_age_s {
+            return Err(SatStatus::Stale);
+        }
+        let dt_toc = t_rx.seconds_since(held.toc) - tau;
+        // Transmit time by the satellite clock, then corrected to system time
+        // (IS-GPS-200 §20.3.3.3.3.1: t = tsv − Δtsv, one iteration suffices).
+        let dtsv = held.eph.clock_polynomial_s(dt_toc);
+        let state = held.eph.evaluate(dt_toe - dtsv, dt_toc - dtsv);
+        let clock_s = state.clock_s - held.eph.group_delay_s(obs.signal);
+        let cn0_factor = cn0.map_or(1.0, |c| {
+            let deficit = f64::from(cfg.cn0_reference_dbhz - c).max(0.0);
+            libm::sqrt(libm::pow(10.0, deficit / 10.0))
+        });
+        Ok(Candidate {
+            pos: state.pos,
+            omega_e: system.constants().omega_e,
+            clock_m: clock_s * SPEED_OF_LIGHT,
+            pr_m: pr,
+            sys: system.index(),
+            cn0_factor,
+            iono_scale: obs.signal.iono_scale_from_l1(),
+        })
+    }
+}

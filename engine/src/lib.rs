@@ -1,0 +1,48 @@
+//! Trackfix engine: pseudoranges and broadcast ephemerides in, a position fix out, in fixed
+//! memory, with no heap, no panics and no clock of its own.
+//!
+//! Data flows one way: [`Epoch`] → per-satellite state at transmit time ([`ephemeris`]) →
+//! corrections ([`iono`], [`tropo`], Sagnac, clocks) → weighted least squares → [`Solution`].
+//!
+//! ```
+//! use trackfix_engine::{Config, Engine, Epoch, GnssTime};
+//! let mut engine: Engine<12, 32> = Engine::new(Config::default());
+//! let epoch: Epoch<12> = Epoch::new(GnssTime::from_week_tow(2111, 345_600.0).unwrap());
+//! let solution = engine.process(&epoch).unwrap();
+//! assert!(solution.fix().is_none()); // no measurements, no fix, and it says why
+//! ```
+//!
+//! # Panics
+//! No public function panics, whatever its input: indexing is checked, integer arithmetic
+//! saturates or is checked, and every float path tolerates NaN and infinities (they surface
+//! as typed errors or per-satellite statuses).
+#![no_std]
+#![forbid(unsafe_code)]
+#![deny(missing_docs)]
+#![cfg_attr(test, allow(clippy::needless_range_loop))]
+
+pub mod config;
+pub mod engine;
+pub mod ephemeris;
+pub mod frames;
+pub mod iono;
+pub mod observation;
+pub mod sat;
+pub mod solution;
+mod solve;
+pub mod store;
+pub mod time;
+pub mod tropo;
+
+pub use config::Config;
+pub use engine::{Engine, EpochError};
+pub use ephemeris::{BroadcastEphemeris, EphemerisError, SatState};
+pub use frames::{Geodetic, LocalFrame};
+pub use iono::IonoCoefficients;
+pub use observation::{Epoch, Observation};
+pub use sat::{SatId, Signal, System, SPEED_OF_LIGHT};
+pub use solution::{
+    Dop, Fix, FixKind, FixOutcome, IonoCorrection, NoFixReason, SatStatus, SatUse, Solution,
+};
+pub use store::{EphemerisStore, Ingested};
+pub use time::{GnssTime, TimeError, UtcDateTime};

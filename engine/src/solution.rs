@@ -1,0 +1,191 @@
+//! What the engine reports for each epoch: the fix (or why there is none) and what became
+//! of every observation.
+
+use crate::frames::Geodetic;
+use crate::sat::{SatId, Signal};
+use crate::time::GnssTime;
+use heapless::Vec;
+
+/// What became of one observation.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
+pub enum SatStatus {
+    /// Used in the fix.
+    Used,
+    /// Below the elevation mask.
+    BelowMask,
+    /// C/N0 below the configured mask.
+    WeakSignal,
+    /// No ephemeris held for the satellite.
+    NoEphemeris,
+    /// The ephemeris marks the satellite unhealthy.
+    Unhealthy,
+    /// The ephemeris is too far from its toe.
+    Stale,
+    /// The pseudorange was reported as zero: not measured.
+    NotMeasured,
+    /// The pseudorange was NaN, infinite or outside the plausible span.
+    BadPseudorange,
+    /// A second observation of the same satellite and signal in one epoch.
+    Duplicate,
+    /// The system is disabled in the configuration.
+    SystemDisabled,
+    /// Not the signal configured for its system.
+    SignalNotUsed,
+    /// Usable, but the epoch produced no fix.
+    NotSolved,
+}
+
+/// One observation's satellite as seen in this epoch.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct SatUse {
+    /// The satellite.
+    pub sat: SatId,
+    /// The signal of the observation.
+    pub signal: Signal,
+    /// Elevation, degrees, when the satellite position and a receiver position are known.
+    pub elevation_deg: Option<f32>,
+    /// Azimuth, degrees from north through east, when known.
+    pub azimuth_deg: Option<f32>,
+    /// Post-fit residual, metres, for used satellites.
+    pub residual_m: Option<f64>,
+    /// Measurement σ given to the observation, metres, for used satellites.
+    pub sigma_m: Option<f32>,
+    /// What became of it.
+    pub status: SatStatus,
+}
+
+/// Dilution of precision, from the unweighted geometry (HᵀH)⁻¹ in east/north/up.
+#[derive(Clone, Copy, Debug, PartialEq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Dop {
+    /// Geometric DOP: position and the reference clock.
+    pub gdop: f64,
+    /// Position DOP.
+    pub pdop: f64,
+    /// Horizontal DOP.
+    pub hdop: f64,
+    /// Vertical DOP.
+    pub vdop: f64,
+    /// Time DOP of the reference clock.
+    pub tdop: f64,
+}
+
+/// The kind of a fix.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
+pub enum FixKind {
+    /// Position with the height held to an earlier 3-D fix (one satellite short).
+    TwoD,
+    /// Full position from the measurements alone.
+    ThreeD,
+}
+
+/// Which ionosphere correction was applied.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
+pub enum IonoCorrection {
+    /// None: no coefficients known, or disabled.
+    None,
+    /// The broadcast Klobuchar model.
+    Klobuchar,
+}
+
+/// A position fix.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Fix {
+    /// 2-D or 3-D.
+    pub kind: FixKind,
+    /// Antenna position, WGS-84 ECEF, metres.
+    pub ecef_m: [f64; 3],
+    /// The same position as latitude, longitude and ellipsoidal height.
+    pub geodetic: Geodetic,
+    /// Receiver clock bias against the first system used (GPS, else Galileo, else BeiDou),
+    /// metres (divide by c for seconds).
+    pub clock_bias_m: f64,
+    /// Receiver clock bias per system (GPS, Galileo, BeiDou), metres; `None` for a system
+    /// without satellites in the fix. Differences are the inter-system biases.
+    pub system_clock_m: [Option<f64>; 3],
+    /// Position covariance in east/north/up, m², row-major 3×3, from the measurement σ model.
+    pub covariance_enu_m2: [[f64; 3]; 3],
+    /// Dilution of precision.
+    pub dop: Dop,
+    /// Satellites used.
+    pub used: u8,
+    /// Least-squares iterations taken.
+    pub iterations: u8,
+    /// Ionosphere correction applied.
+    pub iono: IonoCorrection,
+    /// Weighted sum of squared residuals Σ(v/σ)² (a χ² statistic when the σ model holds).
+    pub weighted_sse: f64,
+}
+
+/// Why an epoch produced no fix.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
+pub enum NoFixReason {
+    /// Fewer usable satellites than unknowns (3 position + 1 clock per system), with no
+    /// recent height to hold for a 2-D fix.
+    TooFewSatellites {
+        /// Usable satellites.
+        usable: u8,
+        /// Unknowns to solve for.
+        needed: u8,
+    },
+    /// The geometry matrix is singular or numerically unusable.
+    SingularGeometry,
+    /// The iteration did not converge within the configured limit.
+    NoConvergence,
+    /// The solution lies outside the configured height span: an input is wrong.
+    ImplausiblePosition,
+}
+
+/// The fix, or why there is none.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[expect(
+    clippy::large_enum_variant,
+    reason = "returned by value; no heap to box into"
+)]
+pub enum FixOutcome {
+    /// A fix.
+    Fix(Fix),
+    /// No fix, with the reason.
+    NoFix(NoFixReason),
+}
+
+/// Everything the engine says about one epoch.
+#[derive(Clone, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Solution<const N: usize> {
+    /// Receiver time tag of the epoch.
+    pub time: GnssTime,
+    /// The fix or why there is none.
+    pub outcome: FixOutcome,
+    /// One entry per observation of the epoch, in input order.
+    pub sats: Vec<SatUse, N>,
+}
+
+impl<const N: usize> Solution<N> {
+    /// The fix, if there is one.
+    pub fn fix(&self) -> Option<&Fix> {
+        match &self.outcome {
+            FixOutcome::Fix(f) => Some(f),
+            FixOutcome::NoFix(_) => None,
+        }
+    }
+}

@@ -1,0 +1,352 @@
+//! Snapshot solution: iterative weighted least squares for position and one receiver clock
+//! per system, with DOP, covariance and post-fit residuals.
+//!
+//! Unknowns: ECEF x, y, z and a clock bias for each of GPS, Galileo and BeiDou. A system
+//! with no satellite in the epoch has its clock pinned (a unit diagonal in the normal
+//! matrix), so the 6×6 solve is the same size every epoch and never singular on its account.
+//!
+//! Corrections that need the receiver's position (elevation mask, ionosphere, troposphere,
+//! elevation weights) switch on once the iteration is within 1 km of a point near the Earth;
+//! before that every satellite has unit weight. Satellite positions are not re-evaluated per
+//! iteration: only the Earth-rotation (Sagnac) rotation over the travel time is.
+//!
+//! Cost per iteration and satellite: 1 sqrt for the range, 2 atan2 + sin + cos for
+//! azimuth/elevation and Klobuchar, 1 sqrt for the troposphere mapping, a rank-one update of
+//! the 6×6 normal matrix; per iteration one 6×6 Cholesky and one geodetic conversion.
+
+use crate::config::Config;
+use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
+use crate::iono::IonoCoefficients;
+use crate::sat::SPEED_OF_LIGHT;
+use crate::solution::{Dop, Fix, FixKind, IonoCorrection, NoFixReason};
+use crate::tropo::ZenithDelay;
+use libm::{atan2, sin, sqrt};
+use nalgebra::{Cholesky, SMatrix, SVector};
+
+type Mat6 = SMatrix<f64, 6, 6>;
+type Vec6 = SVector<f64, 6>;
+
+/// Lowest sin(elevation) used in the σ model, so a satellite at the horizon (reachable with a
+/// mask of 0°) gets a large but finite σ.
+const MIN_SIN_EL: f64 = 0.05;
+
+/// A satellite ready for the solution: its state at transmit time and its measurement.
+#[derive(Clone, Copy, Debug)]
+pub(crate) struct Candidate {
+    /// Satellite ECEF position at transmit time, m.
+    pub pos: [f64; 3],
+    /// Earth rotation rate of the satellite's system, rad/s (for the Sagnac rotation).
+    pub omega_e: f64,
+    /// Satellite clock offset including relativity and group delay, metres.
+    pub clock_m: f64,
+    /// Pseudorange, m.
+    pub pr_m: f64,
+    /// Index of the system's clock state (0, 1, 2).
+    pub sys: usize,
+    /// Multiplier of σ from C/N0 (≥ 1).
+    pub cn0_factor: f64,
+    /// Ionospheric scale from L1 to this signal's frequency.
+    pub iono_scale: f64,
+}
+
+/// What the solution made of one candidate.
+#[derive(Clone, Copy, Debug, Default)]
+pub(crate) struct Outcome {
+    /// Used in the final iteration.
+    pub used: bool,
+    /// Below the elevation mask at the final position.
+    pub masked: bool,
+    /// Elevation and azimuth, rad, once corrections were on.
+    pub el_az: Option<(f64, f64)>,
+    /// Post-fit residual, m.
+    pub residual_m: f64,
+    /// σ given, m.
+    pub sigma_m: f64,
+    /// Partial derivatives row (−unit line of sight), kept for the post-fit residual.
+    row: [f64; 3],
+}
+
+/// Inputs of one solution besides the candidates.
+pub(crate) struct Setup<'a> {
+    pub config: &'a Config,
+    pub iono: Option<&'a IonoCoefficients>,
+    /// GPS time of week of the epoch, s (for the Klobuchar local time).
+    pub tow_s: f64,
+    /// Starting position (last fix, or the Earth's centre).
+    pub seed: [f64; 3],
+    /// Height to hold for a 2-D fix, when one is recent enough.
+    pub hold_height_m: Option<f64>,
+}
+
+/// Iterates the weighted least squares. `out` receives one [`Outcome`] per candidate.
+pub(crate) fn solve(
+    cands: &[Candidate],
+    setup: &Setup<'_>,
+    out: &mut [Outcome],
+) -> Result<Fix, NoFixReason> {
+    let cfg = setup.config;
+    let sin_mask = sin(cfg.elevation_mask_deg.to_radians());
+    let mut pos = setup.seed;
+    let mut clk = [0.0f64; 3];
+    let mut corrections_on = norm(pos) > 6.0e6;
+    let iono = setup.iono.filter(|c| cfg.ionosphere && c.is_finite());
+    let mut iterations = 0u8;
+    loop {
+        iterations = iterations.saturating_add(1);
+        let geo = Geodetic::from_ecef(pos);
+        let frame = LocalFrame::new(pos, &geo);
+        let zenith = (corrections_on && cfg.troposphere)
+            .then(|| ZenithDelay::standard_atmosphere(geo.lat_rad, geo.height_m));
+        let mut normal = Mat6::zeros();
+        let mut geometry = Mat6::zeros();
+        let mut rhs = Vec6::zeros();
+        let mut present = [false; 3];
+        let mut used = 0u8;
+        for (c, o) in cands.iter().zip(out.iter_mut()) {
+            *o = Outcome::default();
+            let sat = sagnac(c.pos, pos, c.omega_e);
+            let los = sub(sat, pos);
+            let rho = norm(los);
+            if rho <= 0.0 {
+                continue;
+            }
+            let u = [los[0] / rho, los[1] / rho, los[2] / rho];
+            let (mut delay, mut sigma) = (0.0, 1.0);
+            if corrections_on {
+                let [e, n, up] = frame.rotate(u);
+                let el = atan2(up, sqrt(e * e + n * n));
+                let az = atan2(e, n);
+                o.el_az = Some((el, az));
+                if up < sin_mask {
+                    o.masked = true;
+                    continue;
+                }
+                if let Some(k) = iono {
+                    delay +=
+                        c.iono_scale * k.delay_l1_m(geo.lat_rad, geo.lon_rad, az, el, setup.tow_s);
+                }
+                if let Some(z) = &zenith {
+                    delay += z.slant_m(up);
+                }
+                sigma =
+                    (cfg.sigma_floor_m + cfg.sigma_elevation_m / up.max(MIN_SIN_EL)) * c.cn0_factor;
+            }
+            let clock = clk.get(c.sys).copied().unwrap_or(0.0);
+            let v = c.pr_m - (rho + clock - c.clock_m + delay);
+            let h = row(u, c.sys);
+            let w = 1.0 / (sigma * sigma);
+            normal += h * h.transpose() * w;
+            geometry += h * h.transpose();
+            rhs += h * (v * w);
+            if let Some(p) = present.get_mut(c.sys) {
+                *p = true;
+            }
+            used = used.saturating_add(1);
+            *o = Outcome {
+                used: true,
+                residual_m: v,
+                sigma_m: sigma,
+                row: [-u[0], -u[1], -u[2]],
+                ..*o
+            };
+        }
+        let systems = present.iter().filter(|p| **p).count() as u8;
+        let unknowns = 3u8.saturating_add(systems);
+        let hold = if corrections_on {
+            setup.hold_height_m
+        } else {
+            None
+        };
+        let mut kind = FixKind::ThreeD;
+        if used < unknowns {
+            match hold {
+                Some(h_hold) if used.saturating_add(1) >= unknowns && used >= 3 => {
+                    let up = frame.axes[2];
+                    let h = Vec6::new(up[0], up[1], up[2], 0.0, 0.0, 0.0);
+                    let w = 1.0 / (cfg.altitude_hold_sigma_m * cfg.altitude_hold_sigma_m);
+                    normal += h * h.transpose() * w;
+                    geometry += h * h.transpose();
+                    rhs += h * ((h_hold - geo.height_m) * w);
+                    kind = FixKind::TwoD;
+                }
+                _ => {
+                    return Err(NoFixReason::TooFewSatellites {
+                        usable: used,
+                        needed: unknowns,
+                    });
+                }
+            }
+        }
+        let pins = Vec6::new(
+            0.0,
+            0.0,
+            0.0,
+            if present[0] { 0.0 } else { 1.0 },
+            if present[1] { 0.0 } else { 1.0 },
+            if present[2] { 0.0 } else { 1.0 },
+        );
+        normal += Mat6::from_diagonal(&pins);
+        geometry += Mat6::from_diagonal(&pins);
+        let chol = Cholesky::new(normal).ok_or(NoFixReason::SingularGeometry)?;
+        let dx = chol.solve(&rhs);
+        let d: [f64; 6] = dx.into();
+        if d.iter().any(|v| !v.is_finite()) {
+            return Err(NoFixReason::SingularGeometry);
+        }
+        pos = [pos[0] + d[0], pos[1] + d[1], pos[2] + d[2]];
+        clk = [clk[0] + d[3], clk[1] + d[4], clk[2] + d[5]];
+        let step = norm([d[0], d[1], d[2]]);
+        if corrections_on && step < cfg.convergence_m {
+            let dpos = [d[0], d[1], d[2]];
+            return finish(
+                FinishInput {
+                    pos,
+                    clk,
+                    present,
+                    kind,
+                    used,
+                    iterations,
+                    iono_used: iono.is_some(),
+                    normal_inv: chol.inverse(),
+                    geometry,
+                    dpos,
+                    dclk: [d[3], d[4], d[5]],
+                    cfg,
+                },
+                cands,
+                out,
+            );
+        }
+        if !corrections_on && step < 1_000.0 && norm(pos) > 5.0e6 {
+            corrections_on = true;
+        }
+        if iterations >= cfg.max_iterations {
+            return Err(NoFixReason::NoConvergence);
+        }
+    }
+}
+
+struct FinishInput<'a> {
+    pos: [f64; 3],
+    clk: [f64; 3],
+    present: [bool; 3],
+    kind: FixKind,
+    used: u8,
+    iterations: u8,
+    iono_used: bool,
+    normal_inv: Mat6,
+    geometry: Mat6,
+    dpos: [f64; 3],
+    dclk: [f64; 3],
+    cfg: &'a Config,
+}
+
+fn finish(
+    f: FinishInput<'_>,
+    cands: &[Candidate],
+    out: &mut [Outcome],
+) -> Result<Fix, NoFixReason> {
+    let geodetic = Geodetic::from_ecef(f.pos);
+    if !(f.cfg.height_span_m.0..=f.cfg.height_span_m.1).contains(&geodetic.height_m) {
+        return Err(NoFixReason::ImplausiblePosition);
+    }
+    let frame = LocalFrame::new(f.pos, &geodetic);
+    let mut sse = 0.0;
+    for (c, o) in cands.iter().zip(out.iter_mut()) {
+        if o.used {
+            // Post-fit residual: the last update moved the state by (dpos, dclk).
+            let dclk = f.dclk.get(c.sys).copied().unwrap_or(0.0);
+            o.residual_m -= dot(o.row, f.dpos) + dclk;
+            let z = o.residual_m / o.sigma_m;
+            sse += z * z;
+        }
+    }
+    let cov = enu_block(&frame, &f.normal_inv);
+    let ginv = Cholesky::new(f.geometry)
+        .ok_or(NoFixReason::SingularGeometry)?
+        .inverse();
+    let q = enu_block(&frame, &ginv);
+    let first = f.present.iter().position(|p| *p).unwrap_or(0);
+    let g: [[f64; 6]; 6] = ginv.into();
+    let tdop2 = g
+        .get(first.saturating_add(3))
+        .and_then(|col| col.get(first.saturating_add(3)))
+        .copied()
+        .unwrap_or(0.0);
+    let hdop2 = q[0][0] + q[1][1];
+    let pdop2 = hdop2 + q[2][2];
+    let mut system_clock_m = [None; 3];
+    for ((s, p), c) in system_clock_m.iter_mut().zip(f.present).zip(f.clk) {
+        if p {
+            *s = Some(c);
+        }
+    }
+    Ok(Fix {
+        kind: f.kind,
+        ecef_m: f.pos,
+        geodetic,
+        clock_bias_m: f.clk.get(first).copied().unwrap_or(0.0),
+        system_clock_m,
+        covariance_enu_m2: cov,
+        dop: Dop {
+            gdop: sqrt(pdop2 + tdop2),
+            pdop: sqrt(pdop2),
+            hdop: sqrt(hdop2),
+            vdop: sqrt(q[2][2]),
+            tdop: sqrt(tdop2),
+        },
+        used: f.used,
+        iterations: f.iterations,
+        iono: if f.iono_used {
+            IonoCorrection::Klobuchar
+        } else {
+            IonoCorrection::None
+        },
+        weighted_sse: sse,
+    })
+}
+
+/// The position block of a 6×6 ECEF covariance rotated to east/north/up: R·Q·Rᵀ.
+fn enu_block(frame: &LocalFrame, q6: &Mat6) -> [[f64; 3]; 3] {
+    let cols: [[f64; 6]; 6] = (*q6).into();
+    let q = |i: usize, j: usize| cols.get(j).and_then(|c| c.get(i)).copied().unwrap_or(0.0);
+    let mut out = [[0.0; 3]; 3];
+    for (a, ra) in out.iter_mut().zip(frame.axes) {
+        for (v, rb) in a.iter_mut().zip(frame.axes) {
+            let mut s = 0.0;
+            for (i, x) in ra.iter().enumerate() {
+                for (j, y) in rb.iter().enumerate() {
+                    s += x * q(i, j) * y;
+                }
+            }
+            *v = s;
+        }
+    }
+    out
+}
+
+/// Design-matrix row: −unit line of sight and 1 on the system's clock.
+fn row(u: [f64; 3], sys: usize) -> Vec6 {
+    Vec6::new(
+        -u[0],
+        -u[1],
+        -u[2],
+        if sys == 0 { 1.0 } else { 0.0 },
+        if sys == 1 { 1.0 } else { 0.0 },
+        if sys == 2 { 1.0 } else { 0.0 },
+    )
+}
+
+/// Rotates a satellite position about the z axis by the Earth's rotation during the
+/// signal's flight, so it is expressed in the ECEF frame of reception (the Sagnac
+/// correction). The angle is ≤ 7e-6 rad, so sin θ = θ and cos θ = 1 − θ²/2 are exact to
+/// far below a millimetre and save two trigonometric calls per satellite.
+fn sagnac(sat: [f64; 3], rx: [f64; 3], omega_e: f64) -> [f64; 3] {
+    let theta = omega_e * norm(sub(sat, rx)) / SPEED_OF_LIGHT;
+    let c = 1.0 - 0.5 * theta * theta;
+    [
+        c * sat[0] + theta * sat[1],
+        c * sat[1] - theta * sat[0],
+        sat[2],
+    ]
+}
