@@ -1,1 +1,10 @@
-//! Host harness.
+//! Host test harness for the Trackfix engine: RINEX replay, precise-orbit reading,
+//! synthetic scenarios and accuracy metrics. The engine code it drives is the same code
+//! the firmware links.
+
+pub mod data;
+pub mod metrics;
+pub mod replay;
+pub mod rinex;
+pub mod sp3;
+pub mod synth;

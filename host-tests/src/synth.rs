@@ -1,0 +1,143 @@
+//! Synthetic measurements: a GPS-like and a Galileo-like constellation of our own
+//! elements, a static receiver, and pseudoranges built from the same physics the engine
+//! models (orbit, satellite clock with relativity and group delay, Sagnac, receiver clock),
+//! plus Gaussian code noise of known σ. Deterministic from a seed.
+
+use rand::{Rng, SeedableRng};
+use rand_distr::{Distribution, Normal};
+use trackfix_engine::{
+    BroadcastEphemeris, Epoch, GnssTime, LocalFrame, Observation, SatId, Signal, System,
+    SPEED_OF_LIGHT,
+};
+
+/// A constellation's broadcast ephemerides, valid around `toe`.
+#[derive(Clone, Debug)]
+pub struct Constellation {
+    /// One record per satellite.
+    pub ephemerides: Vec<BroadcastEphemeris>,
+    /// Common reference time.
+    pub toe: GnssTime,
+}
+
+/// Walker-like shells: GPS 6 planes × 5 slots at 55°, 26,560 km; Galileo 3 × 8 at 56°,
+/// 29,600 km (the published nominal shapes of the two constellations, common practice).
+/// Eccentricities, clock offsets and group delays are drawn from the seed.
+pub fn constellation(seed: u64, toe: GnssTime, with_galileo: bool) -> Constellation {
+    let mut rng = rand::rngs::StdRng::seed_from_u64(seed);
+    let mut ephemerides = Vec::new();
+    let week = u32::try_from(toe.week()).unwrap_or(0);
+    let toe_s = toe.tow_s();
+    let mut shell = |system: System, planes: u8, slots: u8, a_m: f64, inc_deg: f64, rng: &mut rand::rngs::StdRng| {
+        for p in 0..planes {
+            for s in 0..slots {
+                let prn = p * slots + s + 1;
+                let phase = (f64::from(s) / f64::from(slots) + f64::from(p) / f64::from(planes * slots))
+                    * std::f64::consts::TAU;
+                ephemerides.push(BroadcastEphemeris {
+                    sat: SatId { system, prn },
+                    week,
+                    toe_s,
+                    toc_s: toe_s,
+                    af0: rng.random_range(-3e-4..3e-4),
+                    af1: rng.random_range(-5e-12..5e-12),
+                    sqrt_a: a_m.sqrt(),
+                    e: rng.random_range(0.0..0.015),
+                    i0: inc_deg.to_radians() + rng.random_range(-0.01..0.01),
+                    omega0: f64::from(p) / f64::from(planes) * std::f64::consts::TAU,
+                    omega_dot: -8.0e-9,
+                    omega: rng.random_range(0.0..std::f64::consts::TAU),
+                    m0: phase,
+                    tgd_s: rng.random_range(-1e-8..1e-8),
+                    iode: 1,
+                    iodc: 1,
+                    ..Default::default()
+                });
+            }
+        }
+    };
+    shell(System::Gps, 6, 5, 26_559_700.0, 55.0, &mut rng);
+    if with_galileo {
+        shell(System::Galileo, 3, 8, 29_600_000.0, 56.0, &mut rng);
+    }
+    // Undo the ω spread so each slot's argument of latitude stays at its phase.
+    for e in &mut ephemerides {
+        e.m0 -= e.omega;
+    }
+    Constellation { ephemerides, toe }
+}
+
+/// A static receiver observing a constellation.
+#[derive(Clone, Debug)]
+pub struct StaticReceiver {
+    /// True antenna position, ECEF m.
+    pub position: [f64; 3],
+    /// Elevation below which a satellite is not reported, degrees.
+    pub horizon_deg: f64,
+    /// Receiver clock bias, m (its time tags run this far ahead of true time).
+    pub clock_bias_m: f64,
+    /// Galileo minus GPS receiver clock, m.
+    pub inter_system_bias_m: f64,
+}
+
+/// The true geometric delay and transmit-time state of one satellite for reception at
+/// true time `t_true`: returns the pseudorange without noise and the satellite's
+/// Sagnac-rotated position.
+pub fn true_pseudorange(eph: &BroadcastEphemeris, t_true: GnssTime, rx: [f64; 3], rx_clock_m: f64) -> (f64, [f64; 3]) {
+    let toe = eph.toe().unwrap_or(t_true);
+    let toc = eph.toc().unwrap_or(t_true);
+    let c = eph.sat.system.constants();
+    let mut tau = 0.075;
+    let mut sat = [0.0; 3];
+    for _ in 0..6 {
+        let s = eph.evaluate(t_true.seconds_since(toe) - tau, 0.0).pos;
+        let th = c.omega_e * tau;
+        sat = [s[0] * th.cos() + s[1] * th.sin(), -s[0] * th.sin() + s[1] * th.cos(), s[2]];
+        let d = [sat[0] - rx[0], sat[1] - rx[1], sat[2] - rx[2]];
+        tau = (d[0] * d[0] + d[1] * d[1] + d[2] * d[2]).sqrt() / SPEED_OF_LIGHT;
+    }
+    let signal = primary_signal(eph.sat.system);
+    let st = eph.evaluate(t_true.seconds_since(toe) - tau, t_true.seconds_since(toc) - tau);
+    let dt_sat = st.clock_s - eph.group_delay_s(signal);
+    (SPEED_OF_LIGHT * (tau - dt_sat) + rx_clock_m, sat)
+}
+
+/// The signal synthetic observations carry for a system.
+pub fn primary_signal(system: System) -> Signal {
+    match system {
+        System::Gps => Signal::GpsL1Ca,
+        System::Galileo => Signal::GalE1,
+        System::Beidou => Signal::BdsB1I,
+    }
+}
+
+/// Satellites above the horizon at true time `t_true`, with noisy pseudoranges of σ
+/// `sigma_m`. The epoch is tagged by the receiver clock (true time + bias/c), as a real
+/// receiver tags it; the tag is returned rounded to the nanosecond.
+pub fn observe<const N: usize>(
+    rx: &StaticReceiver,
+    constellation: &Constellation,
+    t_true: GnssTime,
+    sigma_m: f64,
+    rng: &mut impl Rng,
+) -> Epoch<N> {
+    let tag = t_true.add_seconds(rx.clock_bias_m / SPEED_OF_LIGHT);
+    // Use the exact tag so the pseudoranges match the rounded time.
+    let bias = tag.seconds_since(t_true) * SPEED_OF_LIGHT;
+    let frame = LocalFrame::at_ecef(rx.position);
+    let noise = Normal::new(0.0, sigma_m).ok();
+    let mut epoch = Epoch::new(tag);
+    for eph in &constellation.ephemerides {
+        let clock = if eph.sat.system == System::Gps { bias } else { bias + rx.inter_system_bias_m };
+        let (pr, sat) = true_pseudorange(eph, t_true, rx.position, clock);
+        let (_, el) = frame.az_el(sat);
+        if el.to_degrees() < rx.horizon_deg {
+            continue;
+        }
+        let mut o = Observation::code(eph.sat, primary_signal(eph.sat.system), pr + noise.map_or(0.0, |n| n.sample(rng)));
+        o.cn0_dbhz = Some(45.0);
+        if epoch.push(o).is_err() {
+            break;
+        }
+    }
+    epoch
+}
