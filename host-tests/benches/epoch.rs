@@ -1,1 +1,54 @@
-fn main() {}
+//! One epoch through the engine (ephemeris evaluation + corrections + WLS) for 8, 12 and
+//! 24 satellites, on the host. Run: `cargo bench -p trackfix-harness --bench epoch`.
+
+use criterion::{criterion_group, criterion_main, BatchSize, BenchmarkId, Criterion};
+use rand::SeedableRng;
+use std::hint::black_box;
+use trackfix_engine::{Config, Engine, Epoch, Geodetic, GnssTime, IonoCoefficients, System};
+use trackfix_harness::synth::{constellation, observe_with, ErrorModel, StaticReceiver};
+
+fn bench(c: &mut Criterion) {
+    let t0 = GnssTime::from_week_tow(2300, 100_000.0).unwrap();
+    let cons = constellation(5, t0, &[System::Gps, System::Galileo, System::Beidou]);
+    let rx = StaticReceiver {
+        position: Geodetic::from_degrees(47.62, 8.91, 412.0).to_ecef(),
+        horizon_deg: 5.0,
+        clock_bias_m: 1_000.0,
+        inter_system_bias_m: 3.0,
+    };
+    let iono = IonoCoefficients {
+        alpha: [1.49e-8, 2.24e-8, -1.19e-7, -1.19e-7],
+        beta: [1.17e5, 1.80e5, -1.31e5, -4.95e5],
+    };
+    let errors = ErrorModel { sigma_m: 0.5, constant_sigma: false, iono: Some((iono, 1.0)), troposphere: true };
+    let mut rng = rand::rngs::StdRng::seed_from_u64(9);
+    let mut group = c.benchmark_group("epoch");
+    for n in [8usize, 12, 24] {
+        let full: Epoch<32> = observe_with(&rx, &cons, t0, &errors, &mut rng);
+        assert!(full.obs.len() >= n, "only {} satellites in view", full.obs.len());
+        let mut first = full.clone();
+        first.obs.truncate(n);
+        let mut next = first.clone();
+        next.time = t0.add_seconds(1.0);
+        let mut cfg = Config::default();
+        cfg.elevation_mask_deg = 5.0;
+        let mut engine: Engine<32, 96> = Engine::new(cfg);
+        for e in &cons.ephemerides {
+            engine.ingest_ephemeris(*e).unwrap();
+        }
+        engine.set_ionosphere(iono);
+        // Warm start: the previous fix seeds the next, as on a tracker between wake-ups.
+        assert!(engine.process(&first).unwrap().fix().is_some());
+        group.bench_with_input(BenchmarkId::from_parameter(n), &n, |b, _| {
+            b.iter_batched_ref(
+                || engine.clone(),
+                |e| black_box(e.process(black_box(&next))),
+                BatchSize::SmallInput,
+            )
+        });
+    }
+    group.finish();
+}
+
+criterion_group!(benches, bench);
+criterion_main!(benches);

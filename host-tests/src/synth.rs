@@ -5,10 +5,26 @@
 
 use rand::{Rng, SeedableRng};
 use rand_distr::{Distribution, Normal};
+use trackfix_engine::tropo::ZenithDelay;
 use trackfix_engine::{
-    BroadcastEphemeris, Epoch, GnssTime, LocalFrame, Observation, SatId, Signal, System,
-    SPEED_OF_LIGHT,
+    BroadcastEphemeris, Epoch, Geodetic, GnssTime, IonoCoefficients, LocalFrame, Observation, SatId,
+    Signal, System, SPEED_OF_LIGHT,
 };
+
+/// Errors added to the true pseudoranges.
+#[derive(Clone, Copy, Debug, Default)]
+pub struct ErrorModel {
+    /// Code noise σ at zenith, m; grows as 1/sin(elevation) (common practice).
+    pub sigma_m: f64,
+    /// σ independent of elevation, m (for checks that need a known, constant σ).
+    pub constant_sigma: bool,
+    /// True ionosphere: the broadcast model's delay times this factor (1.0 = the model is
+    /// exact; real residual errors after Klobuchar are often quoted as 30–50 %, common
+    /// practice).
+    pub iono: Option<(IonoCoefficients, f64)>,
+    /// Add a standard-atmosphere troposphere.
+    pub troposphere: bool,
+}
 
 /// A constellation's broadcast ephemerides, valid around `toe`.
 #[derive(Clone, Debug)]
@@ -20,17 +36,25 @@ pub struct Constellation {
 }
 
 /// Walker-like shells: GPS 6 planes × 5 slots at 55°, 26,560 km; Galileo 3 × 8 at 56°,
-/// 29,600 km (the published nominal shapes of the two constellations, common practice).
-/// Eccentricities, clock offsets and group delays are drawn from the seed.
-pub fn constellation(seed: u64, toe: GnssTime, with_galileo: bool) -> Constellation {
+/// 29,600 km; BeiDou MEO 3 × 8 at 55°, 27,910 km (the published nominal shapes of the
+/// constellations, common practice; BeiDou IGSO/GEO are not modelled here). Eccentricities,
+/// clock offsets and group delays are drawn from the seed.
+pub fn constellation(seed: u64, toe: GnssTime, systems: &[System]) -> Constellation {
     let mut rng = rand::rngs::StdRng::seed_from_u64(seed);
     let mut ephemerides = Vec::new();
-    let week = u32::try_from(toe.week()).unwrap_or(0);
-    let toe_s = toe.tow_s();
+    // Each system's ephemeris carries toe in its own time scale.
+    let week_toe = |system: System| match system {
+        System::Beidou => {
+            let (w, s) = toe.bdt_week_tow();
+            (u32::try_from(w).unwrap_or(0), s)
+        }
+        _ => (u32::try_from(toe.week()).unwrap_or(0), toe.tow_s()),
+    };
     let mut shell = |system: System, planes: u8, slots: u8, a_m: f64, inc_deg: f64, rng: &mut rand::rngs::StdRng| {
         for p in 0..planes {
             for s in 0..slots {
-                let prn = p * slots + s + 1;
+                let (week, toe_s) = week_toe(system);
+                let prn = p * slots + s + if system == System::Beidou { 19 } else { 1 };
                 let phase = (f64::from(s) / f64::from(slots) + f64::from(p) / f64::from(planes * slots))
                     * std::f64::consts::TAU;
                 ephemerides.push(BroadcastEphemeris {
@@ -55,9 +79,13 @@ pub fn constellation(seed: u64, toe: GnssTime, with_galileo: bool) -> Constellat
             }
         }
     };
-    shell(System::Gps, 6, 5, 26_559_700.0, 55.0, &mut rng);
-    if with_galileo {
-        shell(System::Galileo, 3, 8, 29_600_000.0, 56.0, &mut rng);
+    for system in systems {
+        match system {
+            System::Gps => shell(System::Gps, 6, 5, 26_559_700.0, 55.0, &mut rng),
+            System::Galileo => shell(System::Galileo, 3, 8, 29_600_000.0, 56.0, &mut rng),
+            // PRNs 19–42 are BeiDou-3 MEO slots, clear of the GEO numbers 1–5 and 59–63.
+            System::Beidou => shell(System::Beidou, 3, 8, 27_906_100.0, 55.0, &mut rng),
+        }
     }
     // Undo the ω spread so each slot's argument of latitude stays at its phase.
     for e in &mut ephemerides {
@@ -110,9 +138,8 @@ pub fn primary_signal(system: System) -> Signal {
     }
 }
 
-/// Satellites above the horizon at true time `t_true`, with noisy pseudoranges of σ
-/// `sigma_m`. The epoch is tagged by the receiver clock (true time + bias/c), as a real
-/// receiver tags it; the tag is returned rounded to the nanosecond.
+/// Satellites above the horizon at true time `t_true`, with Gaussian pseudorange noise of
+/// constant σ `sigma_m` and no atmosphere (see [`observe_with`]).
 pub fn observe<const N: usize>(
     rx: &StaticReceiver,
     constellation: &Constellation,
@@ -120,21 +147,57 @@ pub fn observe<const N: usize>(
     sigma_m: f64,
     rng: &mut impl Rng,
 ) -> Epoch<N> {
+    let errors = ErrorModel {
+        sigma_m,
+        constant_sigma: true,
+        ..ErrorModel::default()
+    };
+    observe_with(rx, constellation, t_true, &errors, rng)
+}
+
+/// Satellites above the horizon at true time `t_true`, with the errors of `errors`. The
+/// epoch is tagged by the receiver clock (true time + bias/c), as a real receiver tags it.
+pub fn observe_with<const N: usize>(
+    rx: &StaticReceiver,
+    constellation: &Constellation,
+    t_true: GnssTime,
+    errors: &ErrorModel,
+    rng: &mut impl Rng,
+) -> Epoch<N> {
     let tag = t_true.add_seconds(rx.clock_bias_m / SPEED_OF_LIGHT);
-    // Use the exact tag so the pseudoranges match the rounded time.
+    // Use the exact (nanosecond-rounded) tag so the pseudoranges match it.
     let bias = tag.seconds_since(t_true) * SPEED_OF_LIGHT;
     let frame = LocalFrame::at_ecef(rx.position);
-    let noise = Normal::new(0.0, sigma_m).ok();
+    let geo = Geodetic::from_ecef(rx.position);
+    let zenith = ZenithDelay::standard_atmosphere(geo.lat_rad, geo.height_m);
+    let unit = Normal::new(0.0, 1.0).ok();
     let mut epoch = Epoch::new(tag);
     for eph in &constellation.ephemerides {
         let clock = if eph.sat.system == System::Gps { bias } else { bias + rx.inter_system_bias_m };
-        let (pr, sat) = true_pseudorange(eph, t_true, rx.position, clock);
-        let (_, el) = frame.az_el(sat);
+        let (mut pr, sat) = true_pseudorange(eph, t_true, rx.position, clock);
+        let (az, el) = frame.az_el(sat);
         if el.to_degrees() < rx.horizon_deg {
             continue;
         }
-        let mut o = Observation::code(eph.sat, primary_signal(eph.sat.system), pr + noise.map_or(0.0, |n| n.sample(rng)));
-        o.cn0_dbhz = Some(45.0);
+        let signal = primary_signal(eph.sat.system);
+        if let Some((k, scale)) = errors.iono {
+            pr += scale
+                * signal.iono_scale_from_l1()
+                * k.delay_l1_m(geo.lat_rad, geo.lon_rad, az, el, t_true.tow_s());
+        }
+        if errors.troposphere {
+            pr += zenith.slant_m(el.sin());
+        }
+        let sigma = if errors.constant_sigma {
+            errors.sigma_m
+        } else {
+            errors.sigma_m / el.sin().max(0.1)
+        };
+        pr += sigma * unit.map_or(0.0, |n| n.sample(rng));
+        let mut o = Observation::code(eph.sat, signal, pr);
+        // C/N0 falls towards the horizon like a patch antenna's gain (common practice);
+        // with a constant σ it is constant too, so the σ model stays matched.
+        o.cn0_dbhz = Some(if errors.constant_sigma { 45.0 } else { (35.0 + 15.0 * el.sin()) as f32 });
         if epoch.push(o).is_err() {
             break;
         }

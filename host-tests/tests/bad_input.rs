@@ -16,7 +16,7 @@ fn t0() -> GnssTime {
 }
 
 fn setup() -> (TestEngine, Epoch<40>, Vec<BroadcastEphemeris>) {
-    let cons = constellation(11, t0(), false);
+    let cons = constellation(11, t0(), &[System::Gps]);
     let mut e = TestEngine::new(Config::default());
     for eph in &cons.ephemerides {
         e.ingest_ephemeris(*eph).unwrap();

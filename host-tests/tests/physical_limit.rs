@@ -4,7 +4,7 @@
 use nalgebra::{DMatrix, Matrix3};
 use rand::SeedableRng;
 use trackfix_engine::{
-    Config, Engine, FixKind, FixOutcome, GnssTime, Geodetic, LocalFrame, NoFixReason, SPEED_OF_LIGHT,
+    Config, Engine, System, FixKind, FixOutcome, GnssTime, Geodetic, LocalFrame, NoFixReason, SPEED_OF_LIGHT,
 };
 use trackfix_harness::synth::{constellation, observe, true_pseudorange, StaticReceiver};
 
@@ -37,7 +37,7 @@ fn matched_config(sigma: f64) -> Config {
 
 fn engine_with(cfg: Config, with_galileo: bool) -> (TestEngine, trackfix_harness::synth::Constellation) {
     let toe = start().add_seconds(5_000.0);
-    let cons = constellation(7, toe, with_galileo);
+    let cons = constellation(7, toe, if with_galileo { &[System::Gps, System::Galileo][..] } else { &[System::Gps][..] });
     let mut e = TestEngine::new(cfg);
     for eph in &cons.ephemerides {
         e.ingest_ephemeris(*eph).unwrap();

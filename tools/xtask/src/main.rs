@@ -1,1 +1,201 @@
-fn main() {}
+//! Project automation. `cargo xtask test` runs every check the project has, installing
+//! what it needs first; it is the README's test command and the only thing CI runs.
+//!
+//! Steps (each printed, each must pass):
+//! 1. the thumbv7em-none-eabihf target (rustup);
+//! 2. rustfmt check;
+//! 3. clippy `-D warnings` on the engine for the host (with tests) and for the target;
+//! 4. the engine built for the target without default features, and a check that no
+//!    dependency enables an `alloc` or `std` feature;
+//! 5. the firmware example built for the target;
+//! 6. every test of the workspace (release mode: the real-data replays are faster);
+//! 7. the benchmarks compile;
+//! 8. the Python reference vectors regenerated with pinned versions and compared with the
+//!    committed files (skipped, loudly, where Python is absent).
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, ExitCode};
+
+const TARGET: &str = "thumbv7em-none-eabihf";
+
+fn root() -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR")).join("../..").canonicalize().unwrap_or_else(|_| PathBuf::from("."))
+}
+
+struct Runner {
+    passed: Vec<String>,
+    failed: Vec<String>,
+}
+
+impl Runner {
+    fn step(&mut self, name: &str, ok: bool) {
+        println!("xtask: {} {name}", if ok { "PASS" } else { "FAIL" });
+        if ok {
+            self.passed.push(name.to_string());
+        } else {
+            self.failed.push(name.to_string());
+        }
+    }
+
+    fn run(&mut self, name: &str, dir: &Path, program: &str, args: &[&str]) -> bool {
+        println!("\nxtask: == {name}: {program} {}", args.join(" "));
+        let ok = Command::new(program)
+            .args(args)
+            .current_dir(dir)
+            .status()
+            .map(|s| s.success())
+            .unwrap_or(false);
+        self.step(name, ok);
+        ok
+    }
+}
+
+fn output(dir: &Path, program: &str, args: &[&str]) -> Option<String> {
+    let o = Command::new(program).args(args).current_dir(dir).output().ok()?;
+    o.status.success().then(|| String::from_utf8_lossy(&o.stdout).into_owned())
+}
+
+fn main() -> ExitCode {
+    let args: Vec<String> = std::env::args().skip(1).collect();
+    match args.first().map(String::as_str) {
+        Some("test") => test(),
+        Some("vectors") => {
+            let mut r = Runner { passed: vec![], failed: vec![] };
+            vectors(&mut r, true);
+            finish(&r)
+        }
+        _ => {
+            eprintln!("usage: cargo xtask test      run every check (the CI command)");
+            eprintln!("       cargo xtask vectors   regenerate the Python reference vectors in place");
+            ExitCode::FAILURE
+        }
+    }
+}
+
+fn finish(r: &Runner) -> ExitCode {
+    println!();
+    for f in &r.failed {
+        println!("xtask: failed step: {f}");
+    }
+    println!("xtask: {} passed, {} failed", r.passed.len(), r.failed.len());
+    if r.failed.is_empty() {
+        ExitCode::SUCCESS
+    } else {
+        ExitCode::FAILURE
+    }
+}
+
+fn test() -> ExitCode {
+    let root = root();
+    let mut r = Runner { passed: vec![], failed: vec![] };
+    let toolchain = output(&root, "rustc", &["--version"]).unwrap_or_default();
+    println!("xtask: toolchain {}", toolchain.trim());
+
+    if Command::new("rustup").arg("--version").output().is_ok() {
+        r.run("install target", &root, "rustup", &["target", "add", TARGET]);
+    } else {
+        println!("xtask: rustup not found; assuming the {TARGET} standard library is installed");
+    }
+    r.run("rustfmt", &root, "cargo", &["fmt", "--all", "--", "--check"]);
+    r.run(
+        "clippy engine (host, with tests)",
+        &root,
+        "cargo",
+        &["clippy", "-p", "trackfix-engine", "--all-targets", "--features", "serde", "--", "-D", "warnings"],
+    );
+    r.run(
+        "clippy engine (target, defmt)",
+        &root,
+        "cargo",
+        &["clippy", "-p", "trackfix-engine", "--target", TARGET, "--features", "defmt", "--", "-D", "warnings"],
+    );
+    r.run(
+        "engine builds for the target",
+        &root,
+        "cargo",
+        &["build", "-p", "trackfix-engine", "--target", TARGET, "--no-default-features"],
+    );
+    let tree = output(
+        &root,
+        "cargo",
+        &["tree", "-p", "trackfix-engine", "--target", TARGET, "-e", "features,normal", "--prefix", "none"],
+    );
+    let clean = tree.as_deref().is_some_and(|t| {
+        !t.lines().any(|l| l.contains("feature \"alloc\"") || l.contains("feature \"std\""))
+    });
+    if !clean {
+        println!("{}", tree.unwrap_or_default());
+    }
+    r.step("engine dependency tree has no alloc/std feature", clean);
+    r.run(
+        "firmware example builds",
+        &root.join("firmware-example"),
+        "cargo",
+        &["build", "--release"],
+    );
+    r.run("workspace tests", &root, "cargo", &["test", "--workspace", "--release"]);
+    r.run(
+        "benchmarks compile",
+        &root,
+        "cargo",
+        &["bench", "-p", "trackfix-harness", "--no-run"],
+    );
+    vectors(&mut r, false);
+    finish(&r)
+}
+
+/// Regenerates the Python reference vectors in a private virtual environment with the
+/// pinned versions; compares with the committed file (or writes it when `write`).
+fn vectors(r: &mut Runner, write: bool) {
+    let root = root();
+    let dir = root.join("tools/refvectors");
+    let Some(py) = ["python3", "python"]
+        .into_iter()
+        .find(|p| Command::new(p).arg("--version").output().is_ok_and(|o| o.status.success()))
+    else {
+        println!("xtask: SKIPPED reference-vector regeneration: no Python interpreter found");
+        return;
+    };
+    let venv = root.join("target/refvectors-venv");
+    let vpy = venv.join("bin/python");
+    if !vpy.exists()
+        && !r.run(
+            "python venv for reference vectors",
+            &root,
+            py,
+            &["-m", "venv", venv.to_str().unwrap_or("target/refvectors-venv")],
+        )
+    {
+        return;
+    }
+    let vpy_s = vpy.to_string_lossy().into_owned();
+    let req = dir.join("requirements.txt");
+    if !r.run(
+        "pinned Python packages",
+        &root,
+        &vpy_s,
+        &["-m", "pip", "install", "--quiet", "--disable-pip-version-check", "-r", req.to_str().unwrap_or("")],
+    ) {
+        return;
+    }
+    for (script, file) in [("gen_frames.py", "frames_pymap3d.csv")] {
+        println!("\nxtask: == regenerate {file}");
+        let out = Command::new(&vpy_s).arg(dir.join(script)).current_dir(&root).output();
+        let Ok(out) = out.filter(|o| o.status.success()) else {
+            r.step(&format!("regenerate {file}"), false);
+            continue;
+        };
+        let path = dir.join(file);
+        if write {
+            let ok = std::fs::write(&path, &out.stdout).is_ok();
+            r.step(&format!("wrote {file}"), ok);
+        } else {
+            let committed = std::fs::read(&path).unwrap_or_default();
+            let same = committed == out.stdout;
+            if !same {
+                println!("xtask: {file} differs from what {script} produces now; run `cargo xtask vectors` and review");
+            }
+            r.step(&format!("{file} matches a fresh regeneration"), same);
+        }
+    }
+}
