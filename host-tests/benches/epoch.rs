@@ -20,12 +20,21 @@ fn bench(c: &mut Criterion) {
         alpha: [1.49e-8, 2.24e-8, -1.19e-7, -1.19e-7],
         beta: [1.17e5, 1.80e5, -1.31e5, -4.95e5],
     };
-    let errors = ErrorModel { sigma_m: 0.5, constant_sigma: false, iono: Some((iono, 1.0)), troposphere: true };
+    let errors = ErrorModel {
+        sigma_m: 0.5,
+        constant_sigma: false,
+        iono: Some((iono, 1.0)),
+        troposphere: true,
+    };
     let mut rng = rand::rngs::StdRng::seed_from_u64(9);
     let mut group = c.benchmark_group("epoch");
     for n in [8usize, 12, 24] {
         let full: Epoch<32> = observe_with(&rx, &cons, t0, &errors, &mut rng);
-        assert!(full.obs.len() >= n, "only {} satellites in view", full.obs.len());
+        assert!(
+            full.obs.len() >= n,
+            "only {} satellites in view",
+            full.obs.len()
+        );
         let mut first = full.clone();
         first.obs.truncate(n);
         let mut next = first.clone();

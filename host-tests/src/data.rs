@@ -31,7 +31,8 @@ pub fn data_dir_or_skip(test: &str) -> Option<PathBuf> {
 /// # Errors
 /// A message when the file is missing, unlisted or its digest differs.
 pub fn verify(dir: &Path, rel: &str) -> Result<(), String> {
-    let sums = std::fs::read_to_string(dir.join("SHA256SUMS")).map_err(|e| format!("SHA256SUMS: {e}"))?;
+    let sums =
+        std::fs::read_to_string(dir.join("SHA256SUMS")).map_err(|e| format!("SHA256SUMS: {e}"))?;
     let want = sums
         .lines()
         .filter_map(|l| l.split_once(char::is_whitespace))
@@ -43,6 +44,8 @@ pub fn verify(dir: &Path, rel: &str) -> Result<(), String> {
     if got == want {
         Ok(())
     } else {
-        Err(format!("{rel}: SHA-256 {got} differs from SHA256SUMS {want}"))
+        Err(format!(
+            "{rel}: SHA-256 {got} differs from SHA256SUMS {want}"
+        ))
     }
 }

@@ -6,8 +6,8 @@ use crate::metrics::Stats;
 use crate::rinex::{NavFile, NavRecord, ObsEpoch, ObsHeader, ObsReader, RinexError};
 use std::path::{Path, PathBuf};
 use trackfix_engine::{
-    Config, Engine, Epoch, Fix, FixOutcome, GnssTime, LocalFrame, NoFixReason, Observation,
-    SatId, Signal, System,
+    Config, Engine, Epoch, Fix, FixOutcome, GnssTime, LocalFrame, NoFixReason, Observation, SatId,
+    Signal, System,
 };
 
 /// Observations per epoch the replay engine accepts.
@@ -130,13 +130,19 @@ pub fn to_engine_epoch(header: &ObsHeader, e: &ObsEpoch) -> (Epoch<REPLAY_N>, us
 ///
 /// # Errors
 /// The first reading error.
-pub fn load_nav(paths: &[PathBuf]) -> Result<(Vec<NavRecord>, Option<trackfix_engine::IonoCoefficients>), RinexError> {
+pub fn load_nav(
+    paths: &[PathBuf],
+) -> Result<(Vec<NavRecord>, Option<trackfix_engine::IonoCoefficients>), RinexError> {
     let mut all = Vec::new();
     let mut iono = None;
     for p in paths {
         let f = NavFile::read(p)?;
         iono = iono.or(f.iono);
-        all.extend(f.records.into_iter().filter(|r| r.galileo_sources.is_none_or(|s| s & (1 << 9) != 0)));
+        all.extend(
+            f.records
+                .into_iter()
+                .filter(|r| r.galileo_sources.is_none_or(|s| s & (1 << 9) != 0)),
+        );
     }
     all.sort_by_key(|r| r.transmitted);
     Ok((all, iono))

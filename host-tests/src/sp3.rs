@@ -30,7 +30,10 @@ pub fn read(path: &Path) -> Result<Vec<PrecisePosition>, RinexError> {
         let n = i + 1;
         let line = line.map_err(|e| RinexError::new(path, n, e.to_string()))?;
         if let Some(rest) = line.strip_prefix("* ") {
-            let p: Vec<f64> = rest.split_whitespace().filter_map(|s| s.parse().ok()).collect();
+            let p: Vec<f64> = rest
+                .split_whitespace()
+                .filter_map(|s| s.parse().ok())
+                .collect();
             let [y, mo, d, h, mi, s] = p[..] else {
                 return Err(RinexError::new(path, n, "bad epoch line"));
             };
@@ -59,7 +62,11 @@ pub fn read(path: &Path) -> Result<Vec<PrecisePosition>, RinexError> {
             .collect::<Result<_, _>>()
             .map_err(|e| RinexError::new(path, n, e.to_string()))?;
         let (Some(t), &[x, y, z, c]) = (time, &v[..]) else {
-            return Err(RinexError::new(path, n, "position record before an epoch or short"));
+            return Err(RinexError::new(
+                path,
+                n,
+                "position record before an epoch or short",
+            ));
         };
         out.push(PrecisePosition {
             time: t,

@@ -7,8 +7,8 @@ use rand::{Rng, SeedableRng};
 use rand_distr::{Distribution, Normal};
 use trackfix_engine::tropo::ZenithDelay;
 use trackfix_engine::{
-    BroadcastEphemeris, Epoch, Geodetic, GnssTime, IonoCoefficients, LocalFrame, Observation, SatId,
-    Signal, System, SPEED_OF_LIGHT,
+    BroadcastEphemeris, Epoch, Geodetic, GnssTime, IonoCoefficients, LocalFrame, Observation,
+    SatId, Signal, System, SPEED_OF_LIGHT,
 };
 
 /// Errors added to the true pseudoranges.
@@ -50,12 +50,18 @@ pub fn constellation(seed: u64, toe: GnssTime, systems: &[System]) -> Constellat
         }
         _ => (u32::try_from(toe.week()).unwrap_or(0), toe.tow_s()),
     };
-    let mut shell = |system: System, planes: u8, slots: u8, a_m: f64, inc_deg: f64, rng: &mut rand::rngs::StdRng| {
+    let mut shell = |system: System,
+                     planes: u8,
+                     slots: u8,
+                     a_m: f64,
+                     inc_deg: f64,
+                     rng: &mut rand::rngs::StdRng| {
         for p in 0..planes {
             for s in 0..slots {
                 let (week, toe_s) = week_toe(system);
                 let prn = p * slots + s + if system == System::Beidou { 19 } else { 1 };
-                let phase = (f64::from(s) / f64::from(slots) + f64::from(p) / f64::from(planes * slots))
+                let phase = (f64::from(s) / f64::from(slots)
+                    + f64::from(p) / f64::from(planes * slots))
                     * std::f64::consts::TAU;
                 ephemerides.push(BroadcastEphemeris {
                     sat: SatId { system, prn },
@@ -110,7 +116,12 @@ pub struct StaticReceiver {
 /// The true geometric delay and transmit-time state of one satellite for reception at
 /// true time `t_true`: returns the pseudorange without noise and the satellite's
 /// Sagnac-rotated position.
-pub fn true_pseudorange(eph: &BroadcastEphemeris, t_true: GnssTime, rx: [f64; 3], rx_clock_m: f64) -> (f64, [f64; 3]) {
+pub fn true_pseudorange(
+    eph: &BroadcastEphemeris,
+    t_true: GnssTime,
+    rx: [f64; 3],
+    rx_clock_m: f64,
+) -> (f64, [f64; 3]) {
     let toe = eph.toe().unwrap_or(t_true);
     let toc = eph.toc().unwrap_or(t_true);
     let c = eph.sat.system.constants();
@@ -119,12 +130,19 @@ pub fn true_pseudorange(eph: &BroadcastEphemeris, t_true: GnssTime, rx: [f64; 3]
     for _ in 0..6 {
         let s = eph.evaluate(t_true.seconds_since(toe) - tau, 0.0).pos;
         let th = c.omega_e * tau;
-        sat = [s[0] * th.cos() + s[1] * th.sin(), -s[0] * th.sin() + s[1] * th.cos(), s[2]];
+        sat = [
+            s[0] * th.cos() + s[1] * th.sin(),
+            -s[0] * th.sin() + s[1] * th.cos(),
+            s[2],
+        ];
         let d = [sat[0] - rx[0], sat[1] - rx[1], sat[2] - rx[2]];
         tau = (d[0] * d[0] + d[1] * d[1] + d[2] * d[2]).sqrt() / SPEED_OF_LIGHT;
     }
     let signal = primary_signal(eph.sat.system);
-    let st = eph.evaluate(t_true.seconds_since(toe) - tau, t_true.seconds_since(toc) - tau);
+    let st = eph.evaluate(
+        t_true.seconds_since(toe) - tau,
+        t_true.seconds_since(toc) - tau,
+    );
     let dt_sat = st.clock_s - eph.group_delay_s(signal);
     (SPEED_OF_LIGHT * (tau - dt_sat) + rx_clock_m, sat)
 }
@@ -173,7 +191,11 @@ pub fn observe_with<const N: usize>(
     let unit = Normal::new(0.0, 1.0).ok();
     let mut epoch = Epoch::new(tag);
     for eph in &constellation.ephemerides {
-        let clock = if eph.sat.system == System::Gps { bias } else { bias + rx.inter_system_bias_m };
+        let clock = if eph.sat.system == System::Gps {
+            bias
+        } else {
+            bias + rx.inter_system_bias_m
+        };
         let (mut pr, sat) = true_pseudorange(eph, t_true, rx.position, clock);
         let (az, el) = frame.az_el(sat);
         if el.to_degrees() < rx.horizon_deg {
@@ -197,7 +219,11 @@ pub fn observe_with<const N: usize>(
         let mut o = Observation::code(eph.sat, signal, pr);
         // C/N0 falls towards the horizon like a patch antenna's gain (common practice);
         // with a constant σ it is constant too, so the σ model stays matched.
-        o.cn0_dbhz = Some(if errors.constant_sigma { 45.0 } else { (35.0 + 15.0 * el.sin()) as f32 });
+        o.cn0_dbhz = Some(if errors.constant_sigma {
+            45.0
+        } else {
+            (35.0 + 15.0 * el.sin()) as f32
+        });
         if epoch.push(o).is_err() {
             break;
         }

@@ -4,8 +4,8 @@
 use proptest::prelude::*;
 use rand::SeedableRng;
 use trackfix_engine::{
-    BroadcastEphemeris, Config, EphemerisError, Engine, Epoch, EpochError, FixOutcome, GnssTime, Geodetic,
-    NoFixReason, Observation, SatId, SatStatus, Signal, System,
+    BroadcastEphemeris, Config, Engine, EphemerisError, Epoch, EpochError, FixOutcome, Geodetic,
+    GnssTime, NoFixReason, Observation, SatId, SatStatus, Signal, System,
 };
 use trackfix_harness::synth::{constellation, observe, StaticReceiver};
 
@@ -44,19 +44,59 @@ fn with_first(f: impl FnOnce(&mut Observation)) -> (SatStatus, FixOutcome) {
 #[test]
 fn per_observation_table() {
     let cases: Vec<(&str, Box<dyn FnOnce(&mut Observation)>, SatStatus)> = vec![
-        ("NaN pseudorange", Box::new(|o| o.pseudorange_m = f64::NAN), SatStatus::BadPseudorange),
-        ("+inf pseudorange", Box::new(|o| o.pseudorange_m = f64::INFINITY), SatStatus::BadPseudorange),
-        ("-inf pseudorange", Box::new(|o| o.pseudorange_m = f64::NEG_INFINITY), SatStatus::BadPseudorange),
-        ("negative pseudorange", Box::new(|o| o.pseudorange_m = -2.2e7), SatStatus::BadPseudorange),
-        ("absurd pseudorange", Box::new(|o| o.pseudorange_m = 4.0e9), SatStatus::BadPseudorange),
-        ("zero = not measured", Box::new(|o| o.pseudorange_m = 0.0), SatStatus::NotMeasured),
-        ("unknown satellite", Box::new(|o| o.sat = SatId::gps(32)), SatStatus::NoEphemeris),
-        ("wrong signal", Box::new(|o| o.signal = Signal::GpsL2), SatStatus::SignalNotUsed),
-        ("weak C/N0", Box::new(|o| o.cn0_dbhz = Some(12.0)), SatStatus::WeakSignal),
-        ("disabled system", Box::new(|o| {
-            o.sat = SatId::beidou(7);
-            o.signal = Signal::BdsB1I;
-        }), SatStatus::NoEphemeris),
+        (
+            "NaN pseudorange",
+            Box::new(|o| o.pseudorange_m = f64::NAN),
+            SatStatus::BadPseudorange,
+        ),
+        (
+            "+inf pseudorange",
+            Box::new(|o| o.pseudorange_m = f64::INFINITY),
+            SatStatus::BadPseudorange,
+        ),
+        (
+            "-inf pseudorange",
+            Box::new(|o| o.pseudorange_m = f64::NEG_INFINITY),
+            SatStatus::BadPseudorange,
+        ),
+        (
+            "negative pseudorange",
+            Box::new(|o| o.pseudorange_m = -2.2e7),
+            SatStatus::BadPseudorange,
+        ),
+        (
+            "absurd pseudorange",
+            Box::new(|o| o.pseudorange_m = 4.0e9),
+            SatStatus::BadPseudorange,
+        ),
+        (
+            "zero = not measured",
+            Box::new(|o| o.pseudorange_m = 0.0),
+            SatStatus::NotMeasured,
+        ),
+        (
+            "unknown satellite",
+            Box::new(|o| o.sat = SatId::gps(32)),
+            SatStatus::NoEphemeris,
+        ),
+        (
+            "wrong signal",
+            Box::new(|o| o.signal = Signal::GpsL2),
+            SatStatus::SignalNotUsed,
+        ),
+        (
+            "weak C/N0",
+            Box::new(|o| o.cn0_dbhz = Some(12.0)),
+            SatStatus::WeakSignal,
+        ),
+        (
+            "disabled system",
+            Box::new(|o| {
+                o.sat = SatId::beidou(7);
+                o.signal = Signal::BdsB1I;
+            }),
+            SatStatus::NoEphemeris,
+        ),
     ];
     for (name, f, want) in cases {
         let (got, outcome) = with_first(f);
@@ -98,7 +138,13 @@ fn unhealthy_and_stale_ephemerides() {
     epoch.time = t0().add_seconds(3.0 * 3600.0);
     let sol = engine.process(&epoch).unwrap();
     assert!(sol.sats.iter().all(|s| s.status == SatStatus::Stale));
-    assert_eq!(sol.outcome, FixOutcome::NoFix(NoFixReason::TooFewSatellites { usable: 0, needed: 3 }));
+    assert_eq!(
+        sol.outcome,
+        FixOutcome::NoFix(NoFixReason::TooFewSatellites {
+            usable: 0,
+            needed: 3
+        })
+    );
 }
 
 #[test]
@@ -107,7 +153,10 @@ fn disabled_system_is_named() {
     let mut cfg = Config::default();
     cfg.systems = [true, true, false];
     engine.set_config(cfg);
-    epoch.obs[0].sat = SatId { system: System::Beidou, prn: 7 };
+    epoch.obs[0].sat = SatId {
+        system: System::Beidou,
+        prn: 7,
+    };
     epoch.obs[0].signal = Signal::BdsB1I;
     let sol = engine.process(&epoch).unwrap();
     assert_eq!(sol.sats[0].status, SatStatus::SystemDisabled);
@@ -118,7 +167,13 @@ fn time_going_backwards_is_refused() {
     let (mut engine, epoch, _) = setup();
     engine.process(&epoch).unwrap();
     let err = engine.process(&epoch).unwrap_err();
-    assert_eq!(err, EpochError::TimeNotIncreasing { previous: epoch.time, got: epoch.time });
+    assert_eq!(
+        err,
+        EpochError::TimeNotIncreasing {
+            previous: epoch.time,
+            got: epoch.time
+        }
+    );
     let mut earlier = epoch.clone();
     earlier.time = epoch.time.add_seconds(-1.0);
     assert!(engine.process(&earlier).is_err());
@@ -131,13 +186,60 @@ fn corrupted_ephemeris_fields_are_refused() {
     let (mut engine, _, ephs) = setup();
     let good = ephs[0];
     let cases: Vec<(&str, BroadcastEphemeris, EphemerisError)> = vec![
-        ("NaN M0", BroadcastEphemeris { m0: f64::NAN, ..good }, EphemerisError::NotFinite),
-        ("inf af0", BroadcastEphemeris { af0: f64::INFINITY, ..good }, EphemerisError::NotFinite),
-        ("e = 0.9", BroadcastEphemeris { e: 0.9, ..good }, EphemerisError::Eccentricity),
-        ("√A = 0", BroadcastEphemeris { sqrt_a: 0.0, ..good }, EphemerisError::SemiMajorAxis),
-        ("toe = 700000", BroadcastEphemeris { toe_s: 700_000.0, ..good }, EphemerisError::TimeOfWeek),
-        ("IODC ≠ IODE", BroadcastEphemeris { iodc: 0x105, iode: 6, ..good }, EphemerisError::IssueMismatch),
-        ("PRN 0", BroadcastEphemeris { sat: SatId::gps(0), ..good }, EphemerisError::Prn),
+        (
+            "NaN M0",
+            BroadcastEphemeris {
+                m0: f64::NAN,
+                ..good
+            },
+            EphemerisError::NotFinite,
+        ),
+        (
+            "inf af0",
+            BroadcastEphemeris {
+                af0: f64::INFINITY,
+                ..good
+            },
+            EphemerisError::NotFinite,
+        ),
+        (
+            "e = 0.9",
+            BroadcastEphemeris { e: 0.9, ..good },
+            EphemerisError::Eccentricity,
+        ),
+        (
+            "√A = 0",
+            BroadcastEphemeris {
+                sqrt_a: 0.0,
+                ..good
+            },
+            EphemerisError::SemiMajorAxis,
+        ),
+        (
+            "toe = 700000",
+            BroadcastEphemeris {
+                toe_s: 700_000.0,
+                ..good
+            },
+            EphemerisError::TimeOfWeek,
+        ),
+        (
+            "IODC ≠ IODE",
+            BroadcastEphemeris {
+                iodc: 0x105,
+                iode: 6,
+                ..good
+            },
+            EphemerisError::IssueMismatch,
+        ),
+        (
+            "PRN 0",
+            BroadcastEphemeris {
+                sat: SatId::gps(0),
+                ..good
+            },
+            EphemerisError::Prn,
+        ),
     ];
     for (name, eph, want) in cases {
         assert_eq!(engine.ingest_ephemeris(eph), Err(want), "{name}");
@@ -151,8 +253,14 @@ fn epoch_of_garbage_gives_no_fix_with_reasons() {
         o.pseudorange_m = f64::NAN;
     }
     let sol = engine.process(&epoch).unwrap();
-    assert!(sol.sats.iter().all(|s| s.status == SatStatus::BadPseudorange));
-    assert!(matches!(sol.outcome, FixOutcome::NoFix(NoFixReason::TooFewSatellites { usable: 0, .. })));
+    assert!(sol
+        .sats
+        .iter()
+        .all(|s| s.status == SatStatus::BadPseudorange));
+    assert!(matches!(
+        sol.outcome,
+        FixOutcome::NoFix(NoFixReason::TooFewSatellites { usable: 0, .. })
+    ));
 }
 
 // Pseudoranges wrong by growing amounts (1,000 km more per satellite) fit no point near the

@@ -73,9 +73,13 @@ fn ecef_to_geodetic_matches_pymap3d_and_the_source_point() {
         total += 1;
         let g = Geodetic::from_ecef(r.ecef);
         let ours = [g.lat_rad.to_degrees(), g.lon_rad.to_degrees(), g.height_m];
-        let pymap3d_ok = separation_m([r.geo[0], r.geo[1], 0.0], [r.geo_ref[0], r.geo_ref[1], 0.0]) < 1e-4
+        let pymap3d_ok = separation_m([r.geo[0], r.geo[1], 0.0], [r.geo_ref[0], r.geo_ref[1], 0.0])
+            < 1e-4
             && (r.geo[2] - r.geo_ref[2]).abs() < 1e-4;
-        worst_vs_source = worst_vs_source.max(separation_m([ours[0], ours[1], 0.0], [r.geo[0], r.geo[1], 0.0]));
+        worst_vs_source = worst_vs_source.max(separation_m(
+            [ours[0], ours[1], 0.0],
+            [r.geo[0], r.geo[1], 0.0],
+        ));
         let mut references = vec![r.geo];
         if pymap3d_ok {
             refereed += 1;
@@ -85,7 +89,10 @@ fn ecef_to_geodetic_matches_pymap3d_and_the_source_point() {
             worst_h = worst_h.max((ours[2] - reference[2]).abs());
             // Compare horizontal position at a common height (longitude is arbitrary at
             // the poles, where this distance is zero whatever it is).
-            worst_ground = worst_ground.max(separation_m([ours[0], ours[1], 0.0], [reference[0], reference[1], 0.0]));
+            worst_ground = worst_ground.max(separation_m(
+                [ours[0], ours[1], 0.0],
+                [reference[0], reference[1], 0.0],
+            ));
         }
     }
     println!(

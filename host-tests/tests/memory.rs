@@ -17,7 +17,8 @@ fn row<const N: usize>() -> String {
 fn size_table_matches_readme() {
     let table = [row::<12>(), row::<24>(), row::<32>()].join("\n");
     println!("| N | Engine<N, 32> bytes | Epoch<N> bytes | Solution<N> bytes |\n|---|---|---|---|\n{table}");
-    let readme = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/../README.md")).unwrap();
+    let readme =
+        std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/../README.md")).unwrap();
     assert!(
         readme.contains(&table),
         "README.md's memory table is out of date; it should read:\n{table}"

@@ -4,7 +4,8 @@
 use nalgebra::{DMatrix, Matrix3};
 use rand::SeedableRng;
 use trackfix_engine::{
-    Config, Engine, System, FixKind, FixOutcome, GnssTime, Geodetic, LocalFrame, NoFixReason, SPEED_OF_LIGHT,
+    Config, Engine, FixKind, FixOutcome, Geodetic, GnssTime, LocalFrame, NoFixReason, System,
+    SPEED_OF_LIGHT,
 };
 use trackfix_harness::synth::{constellation, observe, true_pseudorange, StaticReceiver};
 
@@ -35,9 +36,20 @@ fn matched_config(sigma: f64) -> Config {
     c
 }
 
-fn engine_with(cfg: Config, with_galileo: bool) -> (TestEngine, trackfix_harness::synth::Constellation) {
+fn engine_with(
+    cfg: Config,
+    with_galileo: bool,
+) -> (TestEngine, trackfix_harness::synth::Constellation) {
     let toe = start().add_seconds(5_000.0);
-    let cons = constellation(7, toe, if with_galileo { &[System::Gps, System::Galileo][..] } else { &[System::Gps][..] });
+    let cons = constellation(
+        7,
+        toe,
+        if with_galileo {
+            &[System::Gps, System::Galileo][..]
+        } else {
+            &[System::Gps][..]
+        },
+    );
     let mut e = TestEngine::new(cfg);
     for eph in &cons.ephemerides {
         e.ingest_ephemeris(*eph).unwrap();
@@ -128,10 +140,18 @@ fn one_microsecond_is_300_metres_of_clock_bias() {
     let (mut engine, cons) = engine_with(matched_config(1.0), false);
     let mut rng = rand::rngs::StdRng::seed_from_u64(3);
     let mut rx = receiver();
-    let a = *engine.process(&observe::<40>(&rx, &cons, start(), 0.0, &mut rng)).unwrap().fix().unwrap();
+    let a = *engine
+        .process(&observe::<40>(&rx, &cons, start(), 0.0, &mut rng))
+        .unwrap()
+        .fix()
+        .unwrap();
     rx.clock_bias_m += 1e-6 * SPEED_OF_LIGHT;
     let t = start().add_seconds(1.0);
-    let b = *engine.process(&observe::<40>(&rx, &cons, t, 0.0, &mut rng)).unwrap().fix().unwrap();
+    let b = *engine
+        .process(&observe::<40>(&rx, &cons, t, 0.0, &mut rng))
+        .unwrap()
+        .fix()
+        .unwrap();
     let frame = LocalFrame::at_ecef(receiver().position);
     for f in [a, b] {
         let e = frame.enu(f.ecef_m);
@@ -149,7 +169,11 @@ fn millisecond_clock_jump_moves_clock_not_position() {
     let mut rng = rand::rngs::StdRng::seed_from_u64(4);
     let mut rx = receiver();
     rx.clock_bias_m += 1e-3 * SPEED_OF_LIGHT;
-    let f = *engine.process(&observe::<40>(&rx, &cons, start(), 0.0, &mut rng)).unwrap().fix().unwrap();
+    let f = *engine
+        .process(&observe::<40>(&rx, &cons, start(), 0.0, &mut rng))
+        .unwrap()
+        .fix()
+        .unwrap();
     let e = LocalFrame::at_ecef(rx.position).enu(f.ecef_m);
     assert!(e.iter().all(|x| x.abs() < 1e-3), "{e:?}");
 }
@@ -165,7 +189,13 @@ fn four_satellites_for_3d_three_with_known_height() {
     let mut three = full.clone();
     three.obs.truncate(3);
     let sol = engine.process(&three).unwrap();
-    assert_eq!(sol.outcome, FixOutcome::NoFix(NoFixReason::TooFewSatellites { usable: 3, needed: 4 }));
+    assert_eq!(
+        sol.outcome,
+        FixOutcome::NoFix(NoFixReason::TooFewSatellites {
+            usable: 3,
+            needed: 4
+        })
+    );
     let mut four = observe::<40>(&rx, &cons, start().add_seconds(1.0), 0.0, &mut rng);
     four.obs.truncate(4);
     let f = *engine.process(&four).unwrap().fix().unwrap();
@@ -188,7 +218,11 @@ fn inter_system_bias_is_estimated() {
     let mut rng = rand::rngs::StdRng::seed_from_u64(6);
     let mut rx = receiver();
     rx.inter_system_bias_m = 17.5;
-    let f = *engine.process(&observe::<40>(&rx, &cons, start(), 0.0, &mut rng)).unwrap().fix().unwrap();
+    let f = *engine
+        .process(&observe::<40>(&rx, &cons, start(), 0.0, &mut rng))
+        .unwrap()
+        .fix()
+        .unwrap();
     let [g, e, _] = f.system_clock_m;
     assert!((e.unwrap() - g.unwrap() - 17.5).abs() < 1e-3);
     let d = LocalFrame::at_ecef(rx.position).enu(f.ecef_m);

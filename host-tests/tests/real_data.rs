@@ -41,7 +41,9 @@ const ESBC_NAV: &str = "esbc_2020177/ESBC00DNK_R_20201770000_01D_MN.rnx";
 
 #[test]
 fn esbc_gps_l1_klobuchar() {
-    let Some(dir) = data_dir_or_skip("esbc_gps_l1_klobuchar") else { return };
+    let Some(dir) = data_dir_or_skip("esbc_gps_l1_klobuchar") else {
+        return;
+    };
     verify(&dir, ESBC_OBS).unwrap();
     verify(&dir, ESBC_NAV).unwrap();
     let ds = dataset(&dir, ESBC_OBS, &[ESBC_NAV], Some(ESBC));
@@ -49,14 +51,19 @@ fn esbc_gps_l1_klobuchar() {
     let a = Accuracy::of(&r);
     report("ESBC GPS L1 C/A + Klobuchar", &a);
     assert_eq!(a.epochs, 240);
-    assert_eq!(a.fixes, 240, "every epoch of a reference station has ≥ 6 GPS satellites");
+    assert_eq!(
+        a.fixes, 240,
+        "every epoch of a reference station has ≥ 6 GPS satellites"
+    );
     assert!(a.horizontal.p95 <= SPS_2001_H95_M);
     assert!(a.vertical.p95 <= SPS_2001_V95_M);
 }
 
 #[test]
 fn esbc_gps_galileo_l1() {
-    let Some(dir) = data_dir_or_skip("esbc_gps_galileo_l1") else { return };
+    let Some(dir) = data_dir_or_skip("esbc_gps_galileo_l1") else {
+        return;
+    };
     let ds = dataset(&dir, ESBC_OBS, &[ESBC_NAV], Some(ESBC));
     let r = replay(&ds, gps_galileo()).unwrap();
     let a = Accuracy::of(&r);
@@ -76,7 +83,9 @@ const NYA1_OBS: &str = "nya1_2024124/NYA100NOR_S_20241240000_01D_30S_MO_first2h.
 
 #[test]
 fn nya1_high_latitude_gps_galileo_beidou() {
-    let Some(dir) = data_dir_or_skip("nya1_high_latitude") else { return };
+    let Some(dir) = data_dir_or_skip("nya1_high_latitude") else {
+        return;
+    };
     verify(&dir, NYA1_OBS).unwrap();
     let nav = [
         "nya1_2024124/NYA100NOR_S_20241240000_01D_GN.rnx",
@@ -84,7 +93,10 @@ fn nya1_high_latitude_gps_galileo_beidou() {
         "nya1_2024124/NYA100NOR_S_20241240000_01D_CN.rnx",
     ];
     let ds = dataset(&dir, NYA1_OBS, &nav, Some(NYA1));
-    for (name, cfg) in [("NYA1 GPS L1 C/A + Klobuchar", gps_only()), ("NYA1 GPS + Galileo + BeiDou", Config::default())] {
+    for (name, cfg) in [
+        ("NYA1 GPS L1 C/A + Klobuchar", gps_only()),
+        ("NYA1 GPS + Galileo + BeiDou", Config::default()),
+    ] {
         let r = replay(&ds, cfg).unwrap();
         let a = Accuracy::of(&r);
         report(name, &a);
@@ -92,7 +104,10 @@ fn nya1_high_latitude_gps_galileo_beidou() {
         // yet been transmitted (BeiDou excepted): that epoch alone lacks satellites and must say so.
         for e in r.iter().filter(|e| e.fix().is_none()) {
             assert_eq!(e.time, r[0].time, "only the first epoch may lack a fix");
-            assert!(matches!(e.no_fix(), Some(NoFixReason::TooFewSatellites { .. })));
+            assert!(matches!(
+                e.no_fix(),
+                Some(NoFixReason::TooFewSatellites { .. })
+            ));
         }
         assert!(a.fixes + 1 >= a.epochs);
         assert!(a.horizontal.p95 <= SPS_2001_H95_M);

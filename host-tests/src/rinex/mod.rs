@@ -88,7 +88,13 @@ pub(crate) fn gps_time(
     mi: i64,
     sec: f64,
 ) -> Option<trackfix_engine::GnssTime> {
-    let y = if y < 80 { y + 2000 } else if y < 100 { y + 1900 } else { y };
+    let y = if y < 80 {
+        y + 2000
+    } else if y < 100 {
+        y + 1900
+    } else {
+        y
+    };
     let whole = sec.floor();
     let utc = trackfix_engine::UtcDateTime {
         year: i32::try_from(y).ok()?,

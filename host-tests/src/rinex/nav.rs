@@ -49,14 +49,25 @@ impl NavFile {
                     .map_err(|e| RinexError::new(path, n, e.to_string()))
             })
         };
-        let (n, first) = next(&mut lines).transpose()?.ok_or_else(|| RinexError::new(path, 1, "empty file"))?;
-        let (version, kind) = version_line(&first)
-            .ok_or_else(|| RinexError::new(path, n, "first line is not a RINEX VERSION / TYPE line"))?;
+        let (n, first) = next(&mut lines)
+            .transpose()?
+            .ok_or_else(|| RinexError::new(path, 1, "empty file"))?;
+        let (version, kind) = version_line(&first).ok_or_else(|| {
+            RinexError::new(path, n, "first line is not a RINEX VERSION / TYPE line")
+        })?;
         if kind != 'N' {
-            return Err(RinexError::new(path, n, format!("not a navigation file (type {kind:?})")));
+            return Err(RinexError::new(
+                path,
+                n,
+                format!("not a navigation file (type {kind:?})"),
+            ));
         }
         if !(2.0..5.0).contains(&version) {
-            return Err(RinexError::new(path, n, format!("unsupported RINEX version {version}")));
+            return Err(RinexError::new(
+                path,
+                n,
+                format!("unsupported RINEX version {version}"),
+            ));
         }
         let major = version.floor() as u32;
         let mut out = NavFile::default();
@@ -112,7 +123,8 @@ impl NavFile {
                     let kind = w.next().unwrap_or("");
                     let _sat = w.next();
                     let msg = w.next().unwrap_or("");
-                    v4_keep = kind == "EPH" && matches!(msg, "LNAV" | "INAV" | "FNAV" | "D1" | "D2");
+                    v4_keep =
+                        kind == "EPH" && matches!(msg, "LNAV" | "INAV" | "FNAV" | "D1" | "D2");
                     continue;
                 }
                 record.push((n, line));
@@ -144,34 +156,46 @@ fn parse_record(
     };
     let n0 = *n0;
     let err = |n: usize, what: String| RinexError::new(path, n, what);
-    let (system, prn, date_cols, first_data, cont_data): (System, i64, [(usize, usize); 6], usize, usize) =
-        if major == 2 {
-            let prn = int_field(cols(head, 0, 2)).map_err(|e| err(n0, e))?.unwrap_or(0);
-            (
-                System::Gps,
-                prn,
-                [(3, 5), (6, 8), (9, 11), (12, 14), (15, 17), (17, 22)],
-                22,
-                3,
-            )
-        } else {
-            let system = match head.chars().next() {
-                Some('G') => System::Gps,
-                Some('E') => System::Galileo,
-                Some('C') => System::Beidou,
-                _ => return Ok(None),
-            };
-            let prn = int_field(cols(head, 1, 3)).map_err(|e| err(n0, e))?.unwrap_or(0);
-            (
-                system,
-                prn,
-                [(4, 8), (9, 11), (12, 14), (15, 17), (18, 20), (21, 23)],
-                23,
-                4,
-            )
+    let (system, prn, date_cols, first_data, cont_data): (
+        System,
+        i64,
+        [(usize, usize); 6],
+        usize,
+        usize,
+    ) = if major == 2 {
+        let prn = int_field(cols(head, 0, 2))
+            .map_err(|e| err(n0, e))?
+            .unwrap_or(0);
+        (
+            System::Gps,
+            prn,
+            [(3, 5), (6, 8), (9, 11), (12, 14), (15, 17), (17, 22)],
+            22,
+            3,
+        )
+    } else {
+        let system = match head.chars().next() {
+            Some('G') => System::Gps,
+            Some('E') => System::Galileo,
+            Some('C') => System::Beidou,
+            _ => return Ok(None),
         };
+        let prn = int_field(cols(head, 1, 3))
+            .map_err(|e| err(n0, e))?
+            .unwrap_or(0);
+        (
+            system,
+            prn,
+            [(4, 8), (9, 11), (12, 14), (15, 17), (18, 20), (21, 23)],
+            23,
+            4,
+        )
+    };
     if record.len() < 8 {
-        return Err(err(n0, format!("record has {} lines, 8 expected", record.len())));
+        return Err(err(
+            n0,
+            format!("record has {} lines, 8 expected", record.len()),
+        ));
     }
     let mut date = [0.0f64; 6];
     for (d, (a, b)) in date.iter_mut().zip(date_cols) {
@@ -190,9 +214,14 @@ fn parse_record(
     .ok_or_else(|| err(n0, "impossible date in record start".into()))?;
     let mut v: Vec<f64> = Vec::with_capacity(31);
     for (k, (n, line)) in record.iter().take(8).enumerate() {
-        let (start, count) = if k == 0 { (first_data, 3) } else { (cont_data, 4) };
+        let (start, count) = if k == 0 {
+            (first_data, 3)
+        } else {
+            (cont_data, 4)
+        };
         for j in 0..count {
-            let f = float_field(cols(line, start + 19 * j, start + 19 * (j + 1))).map_err(|e| err(*n, e))?;
+            let f = float_field(cols(line, start + 19 * j, start + 19 * (j + 1)))
+                .map_err(|e| err(*n, e))?;
             v.push(f.unwrap_or(0.0));
         }
     }

@@ -119,8 +119,8 @@ impl<R: BufRead> ObsReader<R> {
             done: false,
         };
         let first = me.next_line()?.ok_or_else(|| me.err("empty file"))?;
-        let (version, kind) =
-            version_line(&first).ok_or_else(|| me.err("first line is not a RINEX VERSION / TYPE line"))?;
+        let (version, kind) = version_line(&first)
+            .ok_or_else(|| me.err("first line is not a RINEX VERSION / TYPE line"))?;
         if kind != 'O' {
             return Err(me.err(format!("not an observation file (type {kind:?})")));
         }
@@ -132,7 +132,9 @@ impl<R: BufRead> ObsReader<R> {
         let mut v2_expected = 0usize;
         let mut v3_sys: Option<(char, usize)> = None;
         loop {
-            let line = me.next_line()?.ok_or_else(|| me.err("file ends inside the header"))?;
+            let line = me
+                .next_line()?
+                .ok_or_else(|| me.err("file ends inside the header"))?;
             let label = cols(&line, 60, 80).trim().to_string();
             match label.as_str() {
                 "END OF HEADER" => break,
@@ -223,11 +225,19 @@ impl<R: BufRead> ObsReader<R> {
         Ok(v)
     }
 
-    fn obs_fields(&self, line: &str, count: usize, out: &mut Vec<Option<ObsValue>>) -> Result<(), RinexError> {
+    fn obs_fields(
+        &self,
+        line: &str,
+        count: usize,
+        out: &mut Vec<Option<ObsValue>>,
+    ) -> Result<(), RinexError> {
         for k in 0..count {
             let f = cols(line, 16 * k, 16 * k + 14);
             let value = float_field(f).map_err(|e| self.err(e))?;
-            let lli = cols(line, 16 * k + 14, 16 * k + 15).trim().parse::<u8>().ok();
+            let lli = cols(line, 16 * k + 14, 16 * k + 15)
+                .trim()
+                .parse::<u8>()
+                .ok();
             out.push(value.map(|value| ObsValue { value, lli }));
         }
         Ok(())
@@ -242,13 +252,22 @@ impl<R: BufRead> ObsReader<R> {
                 continue;
             }
             let v3 = self.header.version >= 3.0;
-            let (date_cols, flag_col, n_cols): ([(usize, usize); 6], usize, (usize, usize)) = if v3 {
+            let (date_cols, flag_col, n_cols): ([(usize, usize); 6], usize, (usize, usize)) = if v3
+            {
                 if !line.starts_with('>') {
                     return Err(self.err("expected an epoch line starting with '>'"));
                 }
-                ([(2, 6), (7, 9), (10, 12), (13, 15), (16, 18), (18, 29)], 31, (32, 35))
+                (
+                    [(2, 6), (7, 9), (10, 12), (13, 15), (16, 18), (18, 29)],
+                    31,
+                    (32, 35),
+                )
             } else {
-                ([(1, 3), (4, 6), (7, 9), (10, 12), (13, 15), (15, 26)], 28, (29, 32))
+                (
+                    [(1, 3), (4, 6), (7, 9), (10, 12), (13, 15), (15, 26)],
+                    28,
+                    (29, 32),
+                )
             };
             let flag = self.int(cols(&line, flag_col, flag_col + 1))? as u8;
             let count = self.int(cols(&line, n_cols.0, n_cols.1))?;
@@ -256,7 +275,8 @@ impl<R: BufRead> ObsReader<R> {
             if flag >= 2 && flag != 6 {
                 // Event: `count` header-type lines follow.
                 for _ in 0..count {
-                    self.next_line()?.ok_or_else(|| self.err("file ends inside an event record"))?;
+                    self.next_line()?
+                        .ok_or_else(|| self.err("file ends inside an event record"))?;
                 }
                 continue;
             }
@@ -266,14 +286,23 @@ impl<R: BufRead> ObsReader<R> {
                     .map_err(|e| self.err(e))?
                     .ok_or_else(|| self.err("blank date field in epoch line"))?;
             }
-            let time = gps_time(d[0] as i64, d[1] as i64, d[2] as i64, d[3] as i64, d[4] as i64, d[5])
-                .ok_or_else(|| self.err("impossible epoch date"))?;
+            let time = gps_time(
+                d[0] as i64,
+                d[1] as i64,
+                d[2] as i64,
+                d[3] as i64,
+                d[4] as i64,
+                d[5],
+            )
+            .ok_or_else(|| self.err("impossible epoch date"))?;
             let mut ids: Vec<(char, u8)> = Vec::with_capacity(count);
             if !v3 {
                 let mut l = line.clone();
                 for k in 0..count {
                     if k > 0 && k % 12 == 0 {
-                        l = self.next_line()?.ok_or_else(|| self.err("file ends in satellite list"))?;
+                        l = self
+                            .next_line()?
+                            .ok_or_else(|| self.err("file ends in satellite list"))?;
                     }
                     let s = cols(&l, 32 + 3 * (k % 12), 35 + 3 * (k % 12));
                     ids.push(self.sat_id(s)?);
@@ -283,7 +312,9 @@ impl<R: BufRead> ObsReader<R> {
             for k in 0..count {
                 let mut values = Vec::new();
                 let (system, prn, n_codes) = if v3 {
-                    let l = self.next_line()?.ok_or_else(|| self.err("file ends inside an epoch"))?;
+                    let l = self
+                        .next_line()?
+                        .ok_or_else(|| self.err("file ends inside an epoch"))?;
                     let (system, prn) = self.sat_id(cols(&l, 0, 3))?;
                     let n = self.header.codes.get(&system).map_or(0, Vec::len);
                     let rest = cols(&l, 3, l.len()).to_string();
@@ -294,7 +325,9 @@ impl<R: BufRead> ObsReader<R> {
                     let n = self.header.codes.get(&system).map_or(0, Vec::len);
                     let mut left = n;
                     while left > 0 {
-                        let l = self.next_line()?.ok_or_else(|| self.err("file ends inside an epoch"))?;
+                        let l = self
+                            .next_line()?
+                            .ok_or_else(|| self.err("file ends inside an epoch"))?;
                         let take = left.min(5);
                         self.obs_fields(&l, take, &mut values)?;
                         left -= take;
@@ -302,10 +335,16 @@ impl<R: BufRead> ObsReader<R> {
                     (system, prn, n)
                 };
                 if n_codes == 0 {
-                    return Err(self.err(format!("satellite of system {system:?} not in the header")));
+                    return Err(
+                        self.err(format!("satellite of system {system:?} not in the header"))
+                    );
                 }
                 if flag != 6 {
-                    sats.push(SatObs { system, prn, values });
+                    sats.push(SatObs {
+                        system,
+                        prn,
+                        values,
+                    });
                 }
             }
             if flag == 6 {

@@ -9,10 +9,19 @@ fn hdr(label: &str, body: &str) -> String {
 }
 
 fn v3_obs(body: &str) -> String {
-    let mut s = hdr("RINEX VERSION / TYPE", "     3.05           OBSERVATION DATA    M");
+    let mut s = hdr(
+        "RINEX VERSION / TYPE",
+        "     3.05           OBSERVATION DATA    M",
+    );
     s += &hdr("MARKER NAME", "TESTMARK");
-    s += &hdr("APPROX POSITION XYZ", "  3582105.2910   532589.7313  5232754.8054");
-    s += &hdr("ANTENNA: DELTA H/E/N", "        0.2160        0.0000        0.0000");
+    s += &hdr(
+        "APPROX POSITION XYZ",
+        "  3582105.2910   532589.7313  5232754.8054",
+    );
+    s += &hdr(
+        "ANTENNA: DELTA H/E/N",
+        "        0.2160        0.0000        0.0000",
+    );
     s += &hdr("SYS / # / OBS TYPES", "G    3 C1C D1C S1C");
     s += &hdr("END OF HEADER", "");
     s + body
@@ -56,22 +65,43 @@ fn truncated_epoch_is_an_error() {
 
 #[test]
 fn unknown_version_and_missing_header_fields() {
-    let s = hdr("RINEX VERSION / TYPE", "     9.00           OBSERVATION DATA    M");
-    let e = ObsReader::new(Cursor::new(s), Path::new("v9.rnx")).err().unwrap();
+    let s = hdr(
+        "RINEX VERSION / TYPE",
+        "     9.00           OBSERVATION DATA    M",
+    );
+    let e = ObsReader::new(Cursor::new(s), Path::new("v9.rnx"))
+        .err()
+        .unwrap();
     assert!(e.what.contains("unsupported RINEX version"), "{e}");
-    let mut s = hdr("RINEX VERSION / TYPE", "     3.05           OBSERVATION DATA    M");
+    let mut s = hdr(
+        "RINEX VERSION / TYPE",
+        "     3.05           OBSERVATION DATA    M",
+    );
     s += &hdr("END OF HEADER", "");
-    let e = ObsReader::new(Cursor::new(s), Path::new("notypes.rnx")).err().unwrap();
+    let e = ObsReader::new(Cursor::new(s), Path::new("notypes.rnx"))
+        .err()
+        .unwrap();
     assert!(e.what.contains("OBS TYPES"), "{e}");
-    let e = ObsReader::new(Cursor::new("garbage\n"), Path::new("g.rnx")).err().unwrap();
+    let e = ObsReader::new(Cursor::new("garbage\n"), Path::new("g.rnx"))
+        .err()
+        .unwrap();
     assert_eq!(e.line, 1);
 }
 
 #[test]
 fn reads_a_v2_nav_record_with_d_exponents() {
-    let mut s = hdr("RINEX VERSION / TYPE", "     2.11           N: GPS NAV DATA");
-    s += &hdr("ION ALPHA", "    0.7451D-08 -0.1490D-07 -0.5960D-07  0.1192D-06");
-    s += &hdr("ION BETA", "    0.9011D+05 -0.6554D+05 -0.1311D+06  0.4588D+06");
+    let mut s = hdr(
+        "RINEX VERSION / TYPE",
+        "     2.11           N: GPS NAV DATA",
+    );
+    s += &hdr(
+        "ION ALPHA",
+        "    0.7451D-08 -0.1490D-07 -0.5960D-07  0.1192D-06",
+    );
+    s += &hdr(
+        "ION BETA",
+        "    0.9011D+05 -0.6554D+05 -0.1311D+06  0.4588D+06",
+    );
     s += &hdr("END OF HEADER", "");
     s += " 1 21  1  1  2  0  0.0 7.874774746600D-04-5.911715561520D-12 0.000000000000D+00
     5.200000000000D+01-7.362500000000D+01 4.318037039040D-09 2.893520298160D-02
@@ -97,7 +127,10 @@ fn reads_a_v2_nav_record_with_d_exponents() {
 
 #[test]
 fn short_nav_record_names_its_line() {
-    let mut s = hdr("RINEX VERSION / TYPE", "     3.05           NAVIGATION DATA     MIXED");
+    let mut s = hdr(
+        "RINEX VERSION / TYPE",
+        "     3.05           NAVIGATION DATA     MIXED",
+    );
     s += &hdr("END OF HEADER", "");
     s += "G01 2020 06 25 04 00 00 1.604342833161e-05 7.048583938740e-12 0.000000000000e+00\n     5.8e+01\n";
     let e = NavFile::parse(Cursor::new(s), Path::new("short.rnx")).unwrap_err();

@@ -7,7 +7,9 @@ use clap::{Parser, Subcommand};
 use rand::SeedableRng;
 use std::path::PathBuf;
 use std::process::ExitCode;
-use trackfix_engine::{Config, Engine, FixOutcome, Geodetic, GnssTime, IonoCoefficients, LocalFrame, System};
+use trackfix_engine::{
+    Config, Engine, FixOutcome, Geodetic, GnssTime, IonoCoefficients, LocalFrame, System,
+};
 use trackfix_harness::metrics::Stats;
 use trackfix_harness::replay::{replay, Accuracy, Dataset};
 use trackfix_harness::synth::{constellation, observe_with, ErrorModel, StaticReceiver};
@@ -65,8 +67,17 @@ fn parse_xyz(s: &str) -> Result<[f64; 3], String> {
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let result = match cli.command {
-        Command::Demo { epochs, seed, every } => demo(epochs, seed, every.max(1)),
-        Command::Replay { obs, nav, truth, systems } => replay_cmd(obs, nav, truth, &systems),
+        Command::Demo {
+            epochs,
+            seed,
+            every,
+        } => demo(epochs, seed, every.max(1)),
+        Command::Replay {
+            obs,
+            nav,
+            truth,
+            systems,
+        } => replay_cmd(obs, nav, truth, &systems),
     };
     match result {
         Ok(()) => ExitCode::SUCCESS,
@@ -81,7 +92,11 @@ fn demo(epochs: u32, seed: u64, every: u32) -> Result<(), String> {
     println!("Trackfix demo: pallet tracker PT-0417 parked at the Saltmarsh Lane depot (an invented site)");
     println!("{CAUTION}\n");
     let start = GnssTime::from_week_tow(2400, 302_000.0).map_err(|e| format!("{e:?}"))?;
-    let cons = constellation(seed, start.add_seconds(1_800.0), &[System::Gps, System::Galileo]);
+    let cons = constellation(
+        seed,
+        start.add_seconds(1_800.0),
+        &[System::Gps, System::Galileo],
+    );
     let site = Geodetic::from_degrees(47.62, 8.91, 412.0);
     let rx = StaticReceiver {
         position: site.to_ecef(),
@@ -102,7 +117,9 @@ fn demo(epochs: u32, seed: u64, every: u32) -> Result<(), String> {
     };
     let mut engine: Box<Engine<40, 64>> = Box::new(Engine::new(Config::default()));
     for e in &cons.ephemerides {
-        engine.ingest_ephemeris(*e).map_err(|e| format!("ephemeris refused: {e:?}"))?;
+        engine
+            .ingest_ephemeris(*e)
+            .map_err(|e| format!("ephemeris refused: {e:?}"))?;
     }
     engine.set_ionosphere(iono);
     let frame = LocalFrame::at_ecef(rx.position);
@@ -138,7 +155,9 @@ fn demo(epochs: u32, seed: u64, every: u32) -> Result<(), String> {
                     );
                 }
             }
-            FixOutcome::NoFix(reason) if show => println!("{:>9.1} no fix: {reason:?}", sol.time.tow_s()),
+            FixOutcome::NoFix(reason) if show => {
+                println!("{:>9.1} no fix: {reason:?}", sol.time.tow_s())
+            }
             FixOutcome::NoFix(_) => {}
         }
     }
@@ -150,11 +169,24 @@ fn demo(epochs: u32, seed: u64, every: u32) -> Result<(), String> {
     Ok(())
 }
 
-fn replay_cmd(obs: PathBuf, nav: Vec<PathBuf>, truth: Option<[f64; 3]>, systems: &str) -> Result<(), String> {
+fn replay_cmd(
+    obs: PathBuf,
+    nav: Vec<PathBuf>,
+    truth: Option<[f64; 3]>,
+    systems: &str,
+) -> Result<(), String> {
     println!("{CAUTION}");
     let mut cfg = Config::default();
-    cfg.systems = [systems.contains('g'), systems.contains('e'), systems.contains('c')];
-    let ds = Dataset { obs, nav, marker: truth };
+    cfg.systems = [
+        systems.contains('g'),
+        systems.contains('e'),
+        systems.contains('c'),
+    ];
+    let ds = Dataset {
+        obs,
+        nav,
+        marker: truth,
+    };
     let results = replay(&ds, cfg).map_err(|e| e.to_string())?;
     let a = Accuracy::of(&results);
     println!("{} epochs, {} fixes", a.epochs, a.fixes);

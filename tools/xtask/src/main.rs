@@ -19,7 +19,10 @@ use std::process::{Command, ExitCode};
 const TARGET: &str = "thumbv7em-none-eabihf";
 
 fn root() -> PathBuf {
-    Path::new(env!("CARGO_MANIFEST_DIR")).join("../..").canonicalize().unwrap_or_else(|_| PathBuf::from("."))
+    Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("../..")
+        .canonicalize()
+        .unwrap_or_else(|_| PathBuf::from("."))
 }
 
 struct Runner {
@@ -51,8 +54,14 @@ impl Runner {
 }
 
 fn output(dir: &Path, program: &str, args: &[&str]) -> Option<String> {
-    let o = Command::new(program).args(args).current_dir(dir).output().ok()?;
-    o.status.success().then(|| String::from_utf8_lossy(&o.stdout).into_owned())
+    let o = Command::new(program)
+        .args(args)
+        .current_dir(dir)
+        .output()
+        .ok()?;
+    o.status
+        .success()
+        .then(|| String::from_utf8_lossy(&o.stdout).into_owned())
 }
 
 fn main() -> ExitCode {
@@ -60,13 +69,18 @@ fn main() -> ExitCode {
     match args.first().map(String::as_str) {
         Some("test") => test(),
         Some("vectors") => {
-            let mut r = Runner { passed: vec![], failed: vec![] };
+            let mut r = Runner {
+                passed: vec![],
+                failed: vec![],
+            };
             vectors(&mut r, true);
             finish(&r)
         }
         _ => {
             eprintln!("usage: cargo xtask test      run every check (the CI command)");
-            eprintln!("       cargo xtask vectors   regenerate the Python reference vectors in place");
+            eprintln!(
+                "       cargo xtask vectors   regenerate the Python reference vectors in place"
+            );
             ExitCode::FAILURE
         }
     }
@@ -77,7 +91,11 @@ fn finish(r: &Runner) -> ExitCode {
     for f in &r.failed {
         println!("xtask: failed step: {f}");
     }
-    println!("xtask: {} passed, {} failed", r.passed.len(), r.failed.len());
+    println!(
+        "xtask: {} passed, {} failed",
+        r.passed.len(),
+        r.failed.len()
+    );
     if r.failed.is_empty() {
         ExitCode::SUCCESS
     } else {
@@ -87,41 +105,93 @@ fn finish(r: &Runner) -> ExitCode {
 
 fn test() -> ExitCode {
     let root = root();
-    let mut r = Runner { passed: vec![], failed: vec![] };
+    let mut r = Runner {
+        passed: vec![],
+        failed: vec![],
+    };
     let toolchain = output(&root, "rustc", &["--version"]).unwrap_or_default();
     println!("xtask: toolchain {}", toolchain.trim());
 
     if Command::new("rustup").arg("--version").output().is_ok() {
-        r.run("install target", &root, "rustup", &["target", "add", TARGET]);
+        r.run(
+            "install target",
+            &root,
+            "rustup",
+            &["target", "add", TARGET],
+        );
     } else {
         println!("xtask: rustup not found; assuming the {TARGET} standard library is installed");
     }
-    r.run("rustfmt", &root, "cargo", &["fmt", "--all", "--", "--check"]);
+    r.run(
+        "rustfmt",
+        &root,
+        "cargo",
+        &["fmt", "--all", "--", "--check"],
+    );
     r.run(
         "clippy engine (host, with tests)",
         &root,
         "cargo",
-        &["clippy", "-p", "trackfix-engine", "--all-targets", "--features", "serde", "--", "-D", "warnings"],
+        &[
+            "clippy",
+            "-p",
+            "trackfix-engine",
+            "--all-targets",
+            "--features",
+            "serde",
+            "--",
+            "-D",
+            "warnings",
+        ],
     );
     r.run(
         "clippy engine (target, defmt)",
         &root,
         "cargo",
-        &["clippy", "-p", "trackfix-engine", "--target", TARGET, "--features", "defmt", "--", "-D", "warnings"],
+        &[
+            "clippy",
+            "-p",
+            "trackfix-engine",
+            "--target",
+            TARGET,
+            "--features",
+            "defmt",
+            "--",
+            "-D",
+            "warnings",
+        ],
     );
     r.run(
         "engine builds for the target",
         &root,
         "cargo",
-        &["build", "-p", "trackfix-engine", "--target", TARGET, "--no-default-features"],
+        &[
+            "build",
+            "-p",
+            "trackfix-engine",
+            "--target",
+            TARGET,
+            "--no-default-features",
+        ],
     );
     let tree = output(
         &root,
         "cargo",
-        &["tree", "-p", "trackfix-engine", "--target", TARGET, "-e", "features,normal", "--prefix", "none"],
+        &[
+            "tree",
+            "-p",
+            "trackfix-engine",
+            "--target",
+            TARGET,
+            "-e",
+            "features,normal",
+            "--prefix",
+            "none",
+        ],
     );
     let clean = tree.as_deref().is_some_and(|t| {
-        !t.lines().any(|l| l.contains("feature \"alloc\"") || l.contains("feature \"std\""))
+        !t.lines()
+            .any(|l| l.contains("feature \"alloc\"") || l.contains("feature \"std\""))
     });
     if !clean {
         println!("{}", tree.unwrap_or_default());
@@ -133,7 +203,12 @@ fn test() -> ExitCode {
         "cargo",
         &["build", "--release"],
     );
-    r.run("workspace tests", &root, "cargo", &["test", "--workspace", "--release"]);
+    r.run(
+        "workspace tests",
+        &root,
+        "cargo",
+        &["test", "--workspace", "--release"],
+    );
     r.run(
         "benchmarks compile",
         &root,
@@ -149,10 +224,12 @@ fn test() -> ExitCode {
 fn vectors(r: &mut Runner, write: bool) {
     let root = root();
     let dir = root.join("tools/refvectors");
-    let Some(py) = ["python3", "python"]
-        .into_iter()
-        .find(|p| Command::new(p).arg("--version").output().is_ok_and(|o| o.status.success()))
-    else {
+    let Some(py) = ["python3", "python"].into_iter().find(|p| {
+        Command::new(p)
+            .arg("--version")
+            .output()
+            .is_ok_and(|o| o.status.success())
+    }) else {
         println!("xtask: SKIPPED reference-vector regeneration: no Python interpreter found");
         return;
     };
@@ -163,7 +240,11 @@ fn vectors(r: &mut Runner, write: bool) {
             "python venv for reference vectors",
             &root,
             py,
-            &["-m", "venv", venv.to_str().unwrap_or("target/refvectors-venv")],
+            &[
+                "-m",
+                "venv",
+                venv.to_str().unwrap_or("target/refvectors-venv"),
+            ],
         )
     {
         return;
@@ -174,14 +255,25 @@ fn vectors(r: &mut Runner, write: bool) {
         "pinned Python packages",
         &root,
         &vpy_s,
-        &["-m", "pip", "install", "--quiet", "--disable-pip-version-check", "-r", req.to_str().unwrap_or("")],
+        &[
+            "-m",
+            "pip",
+            "install",
+            "--quiet",
+            "--disable-pip-version-check",
+            "-r",
+            req.to_str().unwrap_or(""),
+        ],
     ) {
         return;
     }
     for (script, file) in [("gen_frames.py", "frames_pymap3d.csv")] {
         println!("\nxtask: == regenerate {file}");
-        let out = Command::new(&vpy_s).arg(dir.join(script)).current_dir(&root).output();
-        let Ok(out) = out.filter(|o| o.status.success()) else {
+        let out = Command::new(&vpy_s)
+            .arg(dir.join(script))
+            .current_dir(&root)
+            .output();
+        let Some(out) = out.ok().filter(|o| o.status.success()) else {
             r.step(&format!("regenerate {file}"), false);
             continue;
         };
