@@ -104,7 +104,8 @@ pub struct SatState {
 pub enum EphemerisError {
     /// A field is NaN or infinite.
     NotFinite,
-    /// Eccentricity outside 0 ≤ e < 0.1 (every navigation satellite's orbit is near circular).
+    /// Eccentricity outside 0 ≤ e < 0.3 (navigation orbits are near circular; the most
+    /// eccentric in service, Galileo E14 and E18 in their unplanned orbits, have e ≈ 0.17).
     Eccentricity,
     /// √A outside 4,000–7,000 √m (16,000–49,000 km: MEO to GEO).
     SemiMajorAxis,
@@ -159,7 +160,7 @@ impl BroadcastEphemeris {
         if fields.iter().any(|v| !v.is_finite()) {
             return Err(EphemerisError::NotFinite);
         }
-        if !(0.0..0.1).contains(&self.e) {
+        if !(0.0..0.3).contains(&self.e) {
             return Err(EphemerisError::Eccentricity);
         }
         if !(4_000.0..7_000.0).contains(&self.sqrt_a) {
@@ -317,11 +318,11 @@ fn system_time(system: System, week: u32, tow_s: f64) -> Result<GnssTime, TimeEr
     }
 }
 
-/// Solves Kepler's equation M = E − e·sin E by Newton's method (converges in ≤ 5 steps
-/// to 1e-14 rad for e < 0.1).
+/// Solves Kepler's equation M = E − e·sin E by Newton's method from E = M (quadratic
+/// convergence: 3–4 steps to 1e-14 rad for GPS-like e ≈ 0.01, ≤ 7 for e < 0.3).
 fn solve_kepler(m: f64, e: f64) -> f64 {
     let mut ek = m;
-    for _ in 0..8 {
+    for _ in 0..10 {
         let d = (m - ek + e * sin(ek)) / (1.0 - e * cos(ek));
         ek += d;
         if d.abs() < 1e-14 {

@@ -123,6 +123,19 @@ fn orbital_speed_is_about_14000_kmh() {
     assert!((13_000.0..15_000.0).contains(&kmh), "{kmh} km/h");
 }
 
+// Kepler's equation is solved to 1e-12 rad even for the most eccentric orbits accepted
+// (identity check: M = E − e·sin E).
+#[test]
+fn kepler_converges_across_accepted_eccentricities() {
+    for e in [0.0, 0.01, 0.17, 0.29] {
+        for k in 0..64 {
+            let m = -core::f64::consts::PI + f64::from(k) * 0.1;
+            let ek = solve_kepler(m, e);
+            assert!((ek - e * libm::sin(ek) - m).abs() < 1e-12, "e {e} M {m}");
+        }
+    }
+}
+
 #[test]
 fn validation_names_the_broken_field() {
     let mut e = prn31();

@@ -114,3 +114,31 @@ fn nya1_high_latitude_gps_galileo_beidou() {
         assert!(a.vertical.p95 <= SPS_2001_V95_M);
     }
 }
+
+// KMS3 truth: header APPROX POSITION (shared/data/README.md: about 1 m). RINEX 4.00 files,
+// codes only (no C/N0): 19 epochs.
+const KMS3: [f64; 3] = [3_516_213.4380, 781_859.8595, 5_246_037.9660];
+
+#[test]
+fn kms3_rinex4_gps_galileo() {
+    let Some(dir) = data_dir_or_skip("kms3_rinex4_gps_galileo") else {
+        return;
+    };
+    let obs = "kms3_2022159/KMS300DNK_R_20221591000_01H_30S_MO.rnx";
+    let nav = "kms3_2022159/KMS300DNK_R_20221591000_01H_MN.rnx";
+    verify(&dir, obs).unwrap();
+    verify(&dir, nav).unwrap();
+    let ds = dataset(&dir, obs, &[nav], Some(KMS3));
+    let r = replay(&ds, gps_galileo()).unwrap();
+    let a = Accuracy::of(&r);
+    report("KMS3 GPS L1 C/A + Galileo E1 (RINEX 4)", &a);
+    assert_eq!(a.epochs, 19);
+    // RINEX 4 carries Klobuchar in an `ION … LNAV` record, not the header: it must be used.
+    assert_eq!(
+        r[0].fix().unwrap().iono,
+        trackfix_engine::IonoCorrection::Klobuchar
+    );
+    assert!(a.fixes >= 1);
+    assert!(a.horizontal.p95 <= SPS_2001_H95_M);
+    assert!(a.vertical.p95 <= SPS_2001_V95_M);
+}

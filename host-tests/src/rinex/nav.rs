@@ -102,15 +102,19 @@ impl NavFile {
         // Group lines into records, then parse each.
         let mut record: Vec<(usize, String)> = Vec::new();
         let mut v4_keep = true;
-        let flush = |record: &mut Vec<(usize, String)>, keep: bool, out: &mut NavFile| {
-            if keep && !record.is_empty() {
-                if let Some(r) = parse_record(record, major, path)? {
-                    out.records.push(r);
+        let mut v4_ion = false;
+        let flush =
+            |record: &mut Vec<(usize, String)>, keep: bool, ion: bool, out: &mut NavFile| {
+                if ion && out.iono.is_none() {
+                    out.iono = Some(v4_klobuchar(record, path)?);
+                } else if keep && !record.is_empty() {
+                    if let Some(r) = parse_record(record, major, path)? {
+                        out.records.push(r);
+                    }
                 }
-            }
-            record.clear();
-            Ok::<(), RinexError>(())
-        };
+                record.clear();
+                Ok::<(), RinexError>(())
+            };
         while let Some(item) = next(&mut lines) {
             let (n, line) = item?;
             if line.trim().is_empty() {
@@ -118,13 +122,14 @@ impl NavFile {
             }
             if major >= 4 {
                 if let Some(rest) = line.strip_prefix('>') {
-                    flush(&mut record, v4_keep, &mut out)?;
+                    flush(&mut record, v4_keep, v4_ion, &mut out)?;
                     let mut w = rest.split_whitespace();
                     let kind = w.next().unwrap_or("");
                     let _sat = w.next();
                     let msg = w.next().unwrap_or("");
                     v4_keep =
                         kind == "EPH" && matches!(msg, "LNAV" | "INAV" | "FNAV" | "D1" | "D2");
+                    v4_ion = kind == "ION" && msg == "LNAV";
                     continue;
                 }
                 record.push((n, line));
@@ -136,13 +141,39 @@ impl NavFile {
                 !line.starts_with(' ')
             };
             if starts_record {
-                flush(&mut record, true, &mut out)?;
+                flush(&mut record, true, false, &mut out)?;
             }
             record.push((n, line));
         }
-        flush(&mut record, major >= 4 && v4_keep || major < 4, &mut out)?;
+        flush(
+            &mut record,
+            major < 4 || v4_keep,
+            major >= 4 && v4_ion,
+            &mut out,
+        )?;
         Ok(out)
     }
+}
+
+/// The three lines of a RINEX 4 `> ION … LNAV` record: α0–α2 after the epoch, then α3 β0–β2,
+/// then β3 (and a region code).
+fn v4_klobuchar(record: &[(usize, String)], path: &Path) -> Result<IonoCoefficients, RinexError> {
+    let mut v = Vec::with_capacity(8);
+    for (k, (start, count)) in [(23, 3), (4, 4), (4, 1)].into_iter().enumerate() {
+        let (n, line) = record.get(k).ok_or_else(|| {
+            RinexError::new(path, record.first().map_or(0, |r| r.0), "short ION record")
+        })?;
+        for j in 0..count {
+            let f = float_field(cols(line, start + 19 * j, start + 19 * (j + 1)))
+                .map_err(|e| RinexError::new(path, *n, e))?
+                .ok_or_else(|| RinexError::new(path, *n, "blank Klobuchar coefficient"))?;
+            v.push(f);
+        }
+    }
+    Ok(IonoCoefficients {
+        alpha: [v[0], v[1], v[2], v[3]],
+        beta: [v[4], v[5], v[6], v[7]],
+    })
 }
 
 /// Parses one record; `None` for a system the engine does not use.

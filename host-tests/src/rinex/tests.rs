@@ -137,3 +137,32 @@ fn short_nav_record_names_its_line() {
     assert_eq!(e.line, 3);
     assert!(e.what.contains("8 expected"), "{e}");
 }
+
+#[test]
+fn reads_v4_klobuchar_record_and_skips_other_messages() {
+    let mut s = hdr(
+        "RINEX VERSION / TYPE",
+        "     4.00           NAVIGATION DATA     MIXED",
+    );
+    s += &hdr("END OF HEADER", "");
+    s += "> STO E01 IFNV
+    2022 06 08 09 59 57 GAGP               3.000000000000E+05 1.0E-09 0.0E+00
+> ION G29 LNAV
+    2022 06 08 09 59 48 1.024454832077E-08 2.235174179077E-08-5.960464477539E-08
+    -1.192092895508E-07 9.625600000000E+04 1.310720000000E+05-6.553600000000E+04
+    -5.898240000000E+05 0.000000000000E+00
+";
+    let f = NavFile::parse(Cursor::new(s), Path::new("v4.rnx")).unwrap();
+    let k = f.iono.unwrap();
+    assert_eq!(
+        k.alpha,
+        [
+            1.024454832077e-8,
+            2.235174179077e-8,
+            -5.960464477539e-8,
+            -1.192092895508e-7
+        ]
+    );
+    assert_eq!(k.beta, [9.6256e4, 1.31072e5, -6.5536e4, -5.89824e5]);
+    assert!(f.records.is_empty());
+}

@@ -126,8 +126,8 @@ fn demo(epochs: u32, seed: u64, every: u32) -> Result<(), String> {
     let mut rng = rand::rngs::StdRng::seed_from_u64(seed);
     let (mut h, mut v) = (Vec::new(), Vec::new());
     println!(
-        "{:>9} {:>11} {:>11} {:>8} {:>7} {:>7} {:>7} {:>4} {:>5} {}",
-        "GPS TOW", "lat °", "lon °", "h m", "E m", "N m", "U m", "sats", "HDOP", "fix"
+        "{:>9} {:>11} {:>11} {:>8} {:>7} {:>7} {:>7} {:>4} {:>5} fix",
+        "GPS TOW", "lat °", "lon °", "h m", "E m", "N m", "U m", "sats", "HDOP"
     );
     for k in 0..epochs {
         let t = start.add_seconds(f64::from(k));

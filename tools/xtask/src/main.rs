@@ -145,6 +145,19 @@ fn test() -> ExitCode {
         ],
     );
     r.run(
+        "clippy workspace (host crates and tests)",
+        &root,
+        "cargo",
+        &[
+            "clippy",
+            "--workspace",
+            "--all-targets",
+            "--",
+            "-D",
+            "warnings",
+        ],
+    );
+    r.run(
         "clippy engine (target, defmt)",
         &root,
         "cargo",
