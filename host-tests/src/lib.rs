@@ -4,6 +4,7 @@
 
 pub mod data;
 pub mod metrics;
+pub mod record;
 pub mod replay;
 pub mod rinex;
 pub mod sp3;

@@ -1,5 +1,9 @@
 //! Accuracy statistics over a run.
 
+use crate::record::EpochRecord;
+use std::collections::BTreeMap;
+use trackfix_engine::{GnssTime, SatId};
+
 /// Order statistics of a set of non-negative errors.
 #[derive(Clone, Copy, Debug, PartialEq, Default)]
 pub struct Stats {
@@ -48,6 +52,94 @@ impl Stats {
             p95: quantile_sorted(&v, 0.95),
             p99: quantile_sorted(&v, 0.99),
             max: *v.last().unwrap_or(&f64::NAN),
+        }
+    }
+}
+
+/// Everything the harness reports about a run.
+#[derive(Clone, Debug, Default)]
+pub struct Summary {
+    /// Epochs in the run.
+    pub epochs: usize,
+    /// Epochs with a fix.
+    pub fixes: usize,
+    /// Share of epochs with a fix, %.
+    pub availability_pct: f64,
+    /// Horizontal error.
+    pub horizontal: Stats,
+    /// Absolute vertical error.
+    pub vertical: Stats,
+    /// 3-D error.
+    pub error_3d: Stats,
+    /// Circular error probable (median horizontal error), m.
+    pub cep_m: f64,
+    /// PDOP over fixes.
+    pub pdop: Stats,
+    /// Time to first fix after each wake-up, s (duty-cycled runs).
+    pub ttff_s: Stats,
+    /// Wake-ups that never reached a fix before sleeping again.
+    pub wakeups_without_fix: usize,
+    /// Post-fit residual RMS per satellite, m, with the number of residuals.
+    pub residual_rms_by_sat: BTreeMap<SatId, (usize, f64)>,
+}
+
+impl Summary {
+    /// The summary of a run.
+    pub fn of(records: &[EpochRecord]) -> Summary {
+        let fixes: Vec<_> = records.iter().filter_map(|r| r.fix).collect();
+        let errs: Vec<[f64; 3]> = fixes.iter().filter_map(|f| f.enu_error_m).collect();
+        let h: Vec<f64> = errs.iter().map(|e| e[0].hypot(e[1])).collect();
+        let v: Vec<f64> = errs.iter().map(|e| e[2].abs()).collect();
+        let d3: Vec<f64> = errs.iter().map(|e| (e[0] * e[0] + e[1] * e[1] + e[2] * e[2]).sqrt()).collect();
+        let pdop: Vec<f64> = fixes.iter().map(|f| f.pdop).collect();
+
+        // Time to first fix: from each wake-up to the first fix before the next wake-up.
+        let mut ttff = Vec::new();
+        let mut missed = 0;
+        let mut wake: Option<GnssTime> = None;
+        for r in records {
+            if r.wake_start {
+                if wake.is_some() {
+                    missed += 1;
+                }
+                wake = Some(r.time);
+            }
+            if let (Some(w), Some(_)) = (wake, r.fix) {
+                ttff.push(r.time.seconds_since(w));
+                wake = None;
+            }
+        }
+        missed += usize::from(wake.is_some());
+
+        let mut sums: BTreeMap<SatId, (usize, f64)> = BTreeMap::new();
+        for s in records.iter().flat_map(|r| r.sats.iter()) {
+            if let Some(res) = s.residual_m {
+                let e = sums.entry(s.sat).or_default();
+                e.0 += 1;
+                e.1 += f64::from(res) * f64::from(res);
+            }
+        }
+        let residual_rms_by_sat = sums
+            .into_iter()
+            .map(|(k, (n, ss))| (k, (n, (ss / n as f64).sqrt())))
+            .collect();
+        let horizontal = Stats::of(&h);
+        Summary {
+            epochs: records.len(),
+            fixes: fixes.len(),
+            availability_pct: if records.is_empty() {
+                0.0
+            } else {
+                100.0 * fixes.len() as f64 / records.len() as f64
+            },
+            cep_m: horizontal.p50,
+            horizontal,
+            vertical: Stats::of(&v),
+            error_3d: Stats::of(&d3),
+            pdop: Stats::of(&pdop),
+            ttff_s: Stats::of(&ttff),
+            wakeups_without_fix: missed,
+            residual_rms_by_sat,
         }
     }
 }

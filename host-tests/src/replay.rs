@@ -2,13 +2,10 @@
 //! the order a receiver would have decoded them, and measures errors against a known
 //! antenna position.
 
-use crate::metrics::Stats;
+use crate::record::EpochRecord;
 use crate::rinex::{NavFile, NavRecord, ObsEpoch, ObsHeader, ObsReader, RinexError};
 use std::path::{Path, PathBuf};
-use trackfix_engine::{
-    Config, Engine, Epoch, Fix, FixOutcome, GnssTime, LocalFrame, NoFixReason, Observation, SatId,
-    Signal, System,
-};
+use trackfix_engine::{Config, Engine, Epoch, GnssTime, LocalFrame, Observation, SatId, Signal, System};
 
 /// Observations per epoch the replay engine accepts.
 pub const REPLAY_N: usize = 64;
@@ -18,6 +15,15 @@ pub const REPLAY_EPH: usize = 128;
 /// The engine type used by replays.
 pub type ReplayEngine = Engine<REPLAY_N, REPLAY_EPH>;
 
+/// Where the truth of a recorded dataset comes from.
+#[derive(Clone, Debug, PartialEq)]
+pub enum Truth {
+    /// A fixed marker (ECEF, m); the header's antenna offset is added.
+    Marker([f64; 3]),
+    /// A trajectory of antenna positions, linearly interpolated (see [`read_truth_csv`]).
+    Trajectory(Vec<(GnssTime, [f64; 3])>),
+}
+
 /// A recorded dataset: observations, navigation files and a truth.
 #[derive(Clone, Debug)]
 pub struct Dataset {
@@ -25,65 +31,64 @@ pub struct Dataset {
     pub obs: PathBuf,
     /// Navigation files.
     pub nav: Vec<PathBuf>,
-    /// Known marker position (ECEF, m); the antenna offset of the header is added.
-    pub marker: Option<[f64; 3]>,
+    /// The truth, if known.
+    pub truth: Option<Truth>,
 }
 
-/// One epoch's outcome.
-#[derive(Clone, Debug)]
-pub struct EpochResult {
-    /// Receiver time tag.
-    pub time: GnssTime,
-    /// The fix or why not.
-    pub outcome: FixOutcome,
-    /// East/north/up error of the fix against the truth, m.
-    pub enu_error_m: Option<[f64; 3]>,
-}
-
-impl EpochResult {
-    /// The fix, if any.
-    pub fn fix(&self) -> Option<&Fix> {
-        match &self.outcome {
-            FixOutcome::Fix(f) => Some(f),
-            FixOutcome::NoFix(_) => None,
+/// Reads a truth trajectory: a CSV file with a header line and the columns
+/// `gps_week,tow_s,x_m,y_m,z_m` (antenna reference point, WGS-84 ECEF), in time order.
+/// Lines starting with `#` are comments.
+///
+/// # Errors
+/// A message naming the file, line and field.
+pub fn read_truth_csv(path: &Path) -> Result<Vec<(GnssTime, [f64; 3])>, String> {
+    let text = std::fs::read_to_string(path).map_err(|e| format!("{}: {e}", path.display()))?;
+    let mut out: Vec<(GnssTime, [f64; 3])> = Vec::new();
+    let mut header_seen = false;
+    for (i, line) in text.lines().enumerate() {
+        let n = i + 1;
+        let line = line.trim();
+        if line.is_empty() || line.starts_with('#') {
+            continue;
         }
-    }
-
-    /// The reason for no fix, if any.
-    pub fn no_fix(&self) -> Option<NoFixReason> {
-        match self.outcome {
-            FixOutcome::NoFix(r) => Some(r),
-            FixOutcome::Fix(_) => None,
+        if !header_seen {
+            if line.replace(' ', "") != "gps_week,tow_s,x_m,y_m,z_m" {
+                return Err(format!("{}:{n}: header must be gps_week,tow_s,x_m,y_m,z_m", path.display()));
+            }
+            header_seen = true;
+            continue;
         }
+        let f: Vec<&str> = line.split(',').map(str::trim).collect();
+        if f.len() != 5 {
+            return Err(format!("{}:{n}: expected 5 fields, found {}", path.display(), f.len()));
+        }
+        let names = ["gps_week", "tow_s", "x_m", "y_m", "z_m"];
+        let mut v = [0.0; 5];
+        for k in 0..5 {
+            v[k] = f[k].parse::<f64>().map_err(|_| {
+                format!("{}:{n}: field {} is not a number: {:?}", path.display(), names[k], f[k])
+            })?;
+        }
+        let t = GnssTime::from_week_tow(v[0] as u32, v[1])
+            .map_err(|e| format!("{}:{n}: bad time: {e:?}", path.display()))?;
+        if out.last().is_some_and(|(p, _)| *p >= t) {
+            return Err(format!("{}:{n}: times must increase", path.display()));
+        }
+        out.push((t, [v[2], v[3], v[4]]));
     }
+    Ok(out)
 }
 
-/// Horizontal and vertical error statistics of a run.
-#[derive(Clone, Copy, Debug, Default)]
-pub struct Accuracy {
-    /// Epochs replayed.
-    pub epochs: usize,
-    /// Epochs with a fix.
-    pub fixes: usize,
-    /// Horizontal error.
-    pub horizontal: Stats,
-    /// Absolute vertical error.
-    pub vertical: Stats,
-}
-
-impl Accuracy {
-    /// Statistics of a run's errors.
-    pub fn of(results: &[EpochResult]) -> Accuracy {
-        let errs: Vec<[f64; 3]> = results.iter().filter_map(|r| r.enu_error_m).collect();
-        let h: Vec<f64> = errs.iter().map(|e| e[0].hypot(e[1])).collect();
-        let v: Vec<f64> = errs.iter().map(|e| e[2].abs()).collect();
-        Accuracy {
-            epochs: results.len(),
-            fixes: results.iter().filter(|r| r.fix().is_some()).count(),
-            horizontal: Stats::of(&h),
-            vertical: Stats::of(&v),
-        }
+/// The interpolated truth at `t`, if inside the trajectory's span.
+pub fn truth_at(traj: &[(GnssTime, [f64; 3])], t: GnssTime) -> Option<[f64; 3]> {
+    let i = traj.partition_point(|(tt, _)| *tt <= t);
+    let (t1, p1) = traj.get(i.checked_sub(1)?)?;
+    if *t1 == t {
+        return Some(*p1);
     }
+    let (t2, p2) = traj.get(i)?;
+    let w = t.seconds_since(*t1) / t2.seconds_since(*t1);
+    Some([0, 1, 2].map(|k| p1[k] + w * (p2[k] - p1[k])))
 }
 
 /// The codes tried for each system, in order of preference, with their C/N0 code.
@@ -156,22 +161,27 @@ pub fn antenna_position(marker: [f64; 3], delta_hen: [f64; 3]) -> [f64; 3] {
     [0, 1, 2].map(|k| marker[k] + h * u[k] + de * e[k] + dn * n[k])
 }
 
-/// Replays a dataset with `config`.
+/// Replays a dataset with `config`, calling `progress` with the fraction of the file read.
 ///
 /// # Errors
 /// The first reading error of any file.
-pub fn replay(ds: &Dataset, config: Config) -> Result<Vec<EpochResult>, RinexError> {
+pub fn replay_with_progress(
+    ds: &Dataset,
+    config: Config,
+    mut progress: impl FnMut(f64),
+) -> Result<Vec<EpochRecord>, RinexError> {
     let (nav, iono) = load_nav(&ds.nav)?;
     let reader = ObsReader::open(&ds.obs)?;
-    let truth = ds
-        .marker
-        .map(|m| antenna_position(m, reader.header.antenna_delta_hen));
-    let frame = truth.map(LocalFrame::at_ecef);
+    let marker = match &ds.truth {
+        Some(Truth::Marker(m)) => Some(antenna_position(*m, reader.header.antenna_delta_hen)),
+        _ => None,
+    };
     let mut engine = Box::new(ReplayEngine::new(config));
     if let Some(k) = iono {
         engine.set_ionosphere(k);
     }
     let header = reader.header.clone();
+    let mut first_t = None;
     let mut next_nav = 0;
     let mut out = Vec::new();
     for e in reader {
@@ -185,17 +195,27 @@ pub fn replay(ds: &Dataset, config: Config) -> Result<Vec<EpochResult>, RinexErr
         let Ok(sol) = engine.process(&epoch) else {
             continue;
         };
-        let enu_error_m = match (sol.fix(), frame) {
-            (Some(f), Some(fr)) => Some(fr.enu(f.ecef_m)),
-            _ => None,
+        let truth = match &ds.truth {
+            Some(Truth::Trajectory(t)) => truth_at(t, e.time),
+            _ => marker,
         };
-        out.push(EpochResult {
-            time: sol.time,
-            outcome: sol.outcome,
-            enu_error_m,
-        });
+        out.push(EpochRecord::from_solution(&sol, truth, out.is_empty()));
+        let t0 = *first_t.get_or_insert(e.time);
+        if out.len() % 256 == 0 {
+            // Observation files cover a day at most: report progress through it.
+            progress((e.time.seconds_since(t0) / 86_400.0).min(1.0));
+        }
     }
+    progress(1.0);
     Ok(out)
+}
+
+/// Replays a dataset with `config`.
+///
+/// # Errors
+/// The first reading error of any file.
+pub fn replay(ds: &Dataset, config: Config) -> Result<Vec<EpochRecord>, RinexError> {
+    replay_with_progress(ds, config, |_| {})
 }
 
 /// Convenience: a dataset from paths inside a data folder.
@@ -203,6 +223,6 @@ pub fn dataset(dir: &Path, obs: &str, nav: &[&str], marker: Option<[f64; 3]>) ->
     Dataset {
         obs: dir.join(obs),
         nav: nav.iter().map(|n| dir.join(n)).collect(),
-        marker,
+        truth: marker.map(Truth::Marker),
     }
 }

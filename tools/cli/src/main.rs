@@ -11,7 +11,8 @@ use trackfix_engine::{
     Config, Engine, FixOutcome, Geodetic, GnssTime, IonoCoefficients, LocalFrame, System,
 };
 use trackfix_harness::metrics::Stats;
-use trackfix_harness::replay::{replay, Accuracy, Dataset};
+use trackfix_harness::metrics::Summary;
+use trackfix_harness::replay::{replay, Dataset, Truth};
 use trackfix_harness::synth::{constellation, observe_with, ErrorModel, StaticReceiver};
 
 const CAUTION: &str = "Trackfix output is an estimate: not for safety-of-life navigation; \
@@ -185,10 +186,10 @@ fn replay_cmd(
     let ds = Dataset {
         obs,
         nav,
-        marker: truth,
+        truth: truth.map(Truth::Marker),
     };
     let results = replay(&ds, cfg).map_err(|e| e.to_string())?;
-    let a = Accuracy::of(&results);
+    let a = Summary::of(&results);
     println!("{} epochs, {} fixes", a.epochs, a.fixes);
     if truth.is_some() {
         println!(
