@@ -36,9 +36,10 @@ pub struct Constellation {
 }
 
 /// Walker-like shells: GPS 6 planes × 5 slots at 55°, 26,560 km; Galileo 3 × 8 at 56°,
-/// 29,600 km; BeiDou MEO 3 × 8 at 55°, 27,910 km (the published nominal shapes of the
-/// constellations, common practice; BeiDou IGSO/GEO are not modelled here). Eccentricities,
-/// clock offsets and group delays are drawn from the seed.
+/// 29,600 km; BeiDou MEO 3 × 8 at 55°, 27,910 km (PRN 19–42), BeiDou IGSO 3 at 55°,
+/// 42,164 km, centred on 118° E (PRN 6–8) and BeiDou GEO at 58.75°, 80°, 110.5°, 140° and
+/// 160° E (PRN 1–5): the published nominal shapes of the constellations (common practice).
+/// Eccentricities, clock offsets and group delays are drawn from the seed.
 pub fn constellation(seed: u64, toe: GnssTime, systems: &[System]) -> Constellation {
     let mut rng = rand::rngs::StdRng::seed_from_u64(seed);
     let mut ephemerides = Vec::new();
@@ -50,54 +51,106 @@ pub fn constellation(seed: u64, toe: GnssTime, systems: &[System]) -> Constellat
         }
         _ => (u32::try_from(toe.week()).unwrap_or(0), toe.tow_s()),
     };
-    let mut shell = |system: System,
-                     planes: u8,
-                     slots: u8,
-                     a_m: f64,
-                     inc_deg: f64,
-                     rng: &mut rand::rngs::StdRng| {
+    let mut push = |sat: SatId, a_m: f64, inc: f64, omega0: f64, arg_lat: f64, rng: &mut rand::rngs::StdRng, e_max: f64| {
+        let (week, toe_s) = week_toe(sat.system);
+        let omega = rng.random_range(0.0..std::f64::consts::TAU);
+        ephemerides.push(BroadcastEphemeris {
+            sat,
+            week,
+            toe_s,
+            toc_s: toe_s,
+            af0: rng.random_range(-3e-4..3e-4),
+            af1: rng.random_range(-5e-12..5e-12),
+            sqrt_a: a_m.sqrt(),
+            e: if e_max > 0.0 { rng.random_range(0.0..e_max) } else { 0.0 },
+            i0: inc,
+            omega0,
+            omega_dot: if a_m > 40.0e6 { 0.0 } else { -8.0e-9 },
+            omega,
+            // Keep the argument of latitude at the slot's phase whatever ω is.
+            m0: arg_lat - omega,
+            tgd_s: rng.random_range(-1e-8..1e-8),
+            iode: 1,
+            iodc: 1,
+            ..Default::default()
+        });
+    };
+    let tau = std::f64::consts::TAU;
+    let mut walker = |system: System, planes: u8, slots: u8, a_m: f64, inc_deg: f64, first_prn: u8, rng: &mut rand::rngs::StdRng| {
         for p in 0..planes {
             for s in 0..slots {
-                let (week, toe_s) = week_toe(system);
-                let prn = p * slots + s + if system == System::Beidou { 19 } else { 1 };
-                let phase = (f64::from(s) / f64::from(slots)
-                    + f64::from(p) / f64::from(planes * slots))
-                    * std::f64::consts::TAU;
-                ephemerides.push(BroadcastEphemeris {
-                    sat: SatId { system, prn },
-                    week,
-                    toe_s,
-                    toc_s: toe_s,
-                    af0: rng.random_range(-3e-4..3e-4),
-                    af1: rng.random_range(-5e-12..5e-12),
-                    sqrt_a: a_m.sqrt(),
-                    e: rng.random_range(0.0..0.015),
-                    i0: inc_deg.to_radians() + rng.random_range(-0.01..0.01),
-                    omega0: f64::from(p) / f64::from(planes) * std::f64::consts::TAU,
-                    omega_dot: -8.0e-9,
-                    omega: rng.random_range(0.0..std::f64::consts::TAU),
-                    m0: phase,
-                    tgd_s: rng.random_range(-1e-8..1e-8),
-                    iode: 1,
-                    iodc: 1,
-                    ..Default::default()
-                });
+                let phase = (f64::from(s) / f64::from(slots) + f64::from(p) / f64::from(planes * slots)) * tau;
+                let inc = inc_deg.to_radians() + rng.random_range(-0.01..0.01);
+                let node = f64::from(p) / f64::from(planes) * tau;
+                push(SatId { system, prn: p * slots + s + first_prn }, a_m, inc, node, phase, rng, 0.015);
             }
         }
     };
     for system in systems {
         match system {
-            System::Gps => shell(System::Gps, 6, 5, 26_559_700.0, 55.0, &mut rng),
-            System::Galileo => shell(System::Galileo, 3, 8, 29_600_000.0, 56.0, &mut rng),
-            // PRNs 19–42 are BeiDou-3 MEO slots, clear of the GEO numbers 1–5 and 59–63.
-            System::Beidou => shell(System::Beidou, 3, 8, 27_906_100.0, 55.0, &mut rng),
+            System::Gps => walker(System::Gps, 6, 5, 26_559_700.0, 55.0, 1, &mut rng),
+            System::Galileo => walker(System::Galileo, 3, 8, 29_600_000.0, 56.0, 1, &mut rng),
+            System::Beidou => walker(System::Beidou, 3, 8, 27_906_100.0, 55.0, 19, &mut rng),
         }
     }
-    // Undo the ω spread so each slot's argument of latitude stays at its phase.
-    for e in &mut ephemerides {
-        e.m0 -= e.omega;
+    if systems.contains(&System::Beidou) {
+        let (_, toe_bdt) = week_toe(System::Beidou);
+        let we = System::Beidou.constants().omega_e;
+        let a_geo = (System::Beidou.constants().mu / (we * we)).cbrt();
+        // IGSO: three planes 120° apart, ascending nodes over 118° E at toe.
+        for k in 0..3u8 {
+            let node = 118f64.to_radians() + we * toe_bdt + f64::from(k) * tau / 3.0;
+            let arg = -f64::from(k) * tau / 3.0;
+            push(SatId::beidou(6 + k), a_geo, 55f64.to_radians(), node, arg, &mut rng, 0.003);
+        }
+        // GEO: with the ICD's −5° tilt, i = 5° and a node at 180° give an equatorial orbit;
+        // the argument of latitude λ − 180° puts the satellite over longitude λ at toe.
+        for (k, lon) in [58.75f64, 80.0, 110.5, 140.0, 160.0].into_iter().enumerate() {
+            let node = std::f64::consts::PI + we * toe_bdt;
+            let arg = lon.to_radians() - std::f64::consts::PI;
+            push(SatId::beidou(1 + k as u8), a_geo, 5f64.to_radians(), node, arg, &mut rng, 0.0);
+        }
     }
     Constellation { ephemerides, toe }
+}
+
+/// The same satellites' broadcast set re-referenced to a later (or earlier) `toe`: a new
+/// upload describing the same orbit, as the control segment sends every two hours.
+pub fn rereference(eph: &BroadcastEphemeris, toe: GnssTime) -> BroadcastEphemeris {
+    let old = eph.toe().unwrap_or(toe);
+    let dt = toe.seconds_since(old);
+    let c = eph.sat.system.constants();
+    let a = eph.sqrt_a * eph.sqrt_a;
+    let n = (c.mu / (a * a * a)).sqrt() + eph.delta_n;
+    let (week, toe_s) = match eph.sat.system {
+        System::Beidou => {
+            let (w, s) = toe.bdt_week_tow();
+            (u32::try_from(w).unwrap_or(0), s)
+        }
+        _ => (u32::try_from(toe.week()).unwrap_or(0), toe.tow_s()),
+    };
+    let weeks = f64::from(week) - f64::from(eph.week);
+    // Keep Ωk(t) unchanged. MEO/IGSO: Ωk = Ω0 + Ω̇·tk − Ω̇e·(t − start of toe's week).
+    // GEO: the ICD's frame is the Earth-fixed frame at toe, tilted; a stationary satellite
+    // keeps its argument of latitude and its node moves with toe's seconds of week.
+    let (omega0, m0) = if eph.sat.is_beidou_geo() {
+        (eph.omega0 + c.omega_e * (toe_s - eph.toe_s), eph.m0)
+    } else {
+        (eph.omega0 + eph.omega_dot * dt - c.omega_e * 604_800.0 * weeks, eph.m0 + n * dt)
+    };
+    let iode = (eph.iode + 1) % 256;
+    BroadcastEphemeris {
+        week,
+        toe_s,
+        toc_s: toe_s,
+        af0: eph.af0 + eph.af1 * dt,
+        m0,
+        omega0,
+        i0: eph.i0 + eph.idot * dt,
+        iode,
+        iodc: iode,
+        ..*eph
+    }
 }
 
 /// A static receiver observing a constellation.
@@ -229,4 +282,44 @@ pub fn observe_with<const N: usize>(
         }
     }
     epoch
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn pos(e: &BroadcastEphemeris, t: GnssTime) -> [f64; 3] {
+        e.evaluate(t.seconds_since(e.toe().unwrap()), 0.0).pos
+    }
+
+    // A re-referenced set describes the same orbit: 1 mm at a common time, for MEO, IGSO
+    // and GEO, across a week boundary too.
+    #[test]
+    fn rereferenced_sets_describe_the_same_orbit() {
+        let toe = GnssTime::from_week_tow(2300, 597_600.0).unwrap();
+        let c = constellation(3, toe, &[System::Gps, System::Beidou]);
+        let t = toe.add_seconds(5_400.0);
+        for e in &c.ephemerides {
+            let later = rereference(e, toe.add_seconds(7_200.0));
+            let (a, b) = (pos(e, t), pos(&later, t));
+            let d = ((a[0] - b[0]).powi(2) + (a[1] - b[1]).powi(2) + (a[2] - b[2]).powi(2)).sqrt();
+            assert!(d < 1e-3, "{:?}: {d} m", e.sat);
+        }
+    }
+
+    // BeiDou GEO satellites stay put over their longitude (10 km over 6 h with our e = 0,
+    // exact-period elements; real GEOs drift within ±0.1° by station-keeping, common practice).
+    #[test]
+    fn beidou_geo_is_geostationary() {
+        let toe = GnssTime::from_week_tow(2300, 100_000.0).unwrap();
+        let c = constellation(3, toe, &[System::Beidou]);
+        for e in c.ephemerides.iter().filter(|e| e.sat.is_beidou_geo()) {
+            let a = pos(e, toe);
+            let b = pos(e, toe.add_seconds(21_600.0));
+            let d = ((a[0] - b[0]).powi(2) + (a[1] - b[1]).powi(2) + (a[2] - b[2]).powi(2)).sqrt();
+            assert!(d < 10_000.0, "{:?} moved {d} m", e.sat);
+            let g = trackfix_engine::Geodetic::from_ecef(a);
+            assert!(g.lat_rad.to_degrees().abs() < 0.5, "{:?} latitude {}", e.sat, g.lat_rad.to_degrees());
+        }
+    }
 }
