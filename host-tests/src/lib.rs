@@ -3,9 +3,11 @@
 //! the firmware links.
 
 pub mod data;
+pub mod manifest;
 pub mod metrics;
 pub mod record;
 pub mod replay;
 pub mod rinex;
+pub mod scenario;
 pub mod sp3;
 pub mod synth;

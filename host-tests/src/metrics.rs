@@ -90,7 +90,10 @@ impl Summary {
         let errs: Vec<[f64; 3]> = fixes.iter().filter_map(|f| f.enu_error_m).collect();
         let h: Vec<f64> = errs.iter().map(|e| e[0].hypot(e[1])).collect();
         let v: Vec<f64> = errs.iter().map(|e| e[2].abs()).collect();
-        let d3: Vec<f64> = errs.iter().map(|e| (e[0] * e[0] + e[1] * e[1] + e[2] * e[2]).sqrt()).collect();
+        let d3: Vec<f64> = errs
+            .iter()
+            .map(|e| (e[0] * e[0] + e[1] * e[1] + e[2] * e[2]).sqrt())
+            .collect();
         let pdop: Vec<f64> = fixes.iter().map(|f| f.pdop).collect();
 
         // Time to first fix: from each wake-up to the first fix before the next wake-up.

@@ -2,7 +2,8 @@
 //! every metric, plot and export.
 
 use trackfix_engine::{
-    FixKind, FixOutcome, GnssTime, IonoCorrection, LocalFrame, NoFixReason, SatId, SatStatus, Solution,
+    FixKind, FixOutcome, GnssTime, IonoCorrection, LocalFrame, NoFixReason, SatId, SatStatus,
+    Solution,
 };
 
 /// A fix, reduced to what metrics and reports use.
@@ -64,7 +65,11 @@ pub struct EpochRecord {
 
 impl EpochRecord {
     /// Condenses a solution; `truth` is the true antenna position, if known.
-    pub fn from_solution<const N: usize>(sol: &Solution<N>, truth: Option<[f64; 3]>, wake_start: bool) -> Self {
+    pub fn from_solution<const N: usize>(
+        sol: &Solution<N>,
+        truth: Option<[f64; 3]>,
+        wake_start: bool,
+    ) -> Self {
         let sats = sol
             .sats
             .iter()
@@ -98,7 +103,11 @@ impl EpochRecord {
                         hdop: f.dop.hdop,
                         vdop: f.dop.vdop,
                         pdop: f.dop.pdop,
-                        sigma_enu_m: [c[0][0].max(0.0).sqrt(), c[1][1].max(0.0).sqrt(), c[2][2].max(0.0).sqrt()],
+                        sigma_enu_m: [
+                            c[0][0].max(0.0).sqrt(),
+                            c[1][1].max(0.0).sqrt(),
+                            c[2][2].max(0.0).sqrt(),
+                        ],
                         used: f.used,
                         residual_rms_m: rms,
                         iono: f.iono,

@@ -5,7 +5,9 @@
 use crate::record::EpochRecord;
 use crate::rinex::{NavFile, NavRecord, ObsEpoch, ObsHeader, ObsReader, RinexError};
 use std::path::{Path, PathBuf};
-use trackfix_engine::{Config, Engine, Epoch, GnssTime, LocalFrame, Observation, SatId, Signal, System};
+use trackfix_engine::{
+    Config, Engine, Epoch, GnssTime, LocalFrame, Observation, SatId, Signal, System,
+};
 
 /// Observations per epoch the replay engine accepts.
 pub const REPLAY_N: usize = 64;
@@ -53,20 +55,32 @@ pub fn read_truth_csv(path: &Path) -> Result<Vec<(GnssTime, [f64; 3])>, String> 
         }
         if !header_seen {
             if line.replace(' ', "") != "gps_week,tow_s,x_m,y_m,z_m" {
-                return Err(format!("{}:{n}: header must be gps_week,tow_s,x_m,y_m,z_m", path.display()));
+                return Err(format!(
+                    "{}:{n}: header must be gps_week,tow_s,x_m,y_m,z_m",
+                    path.display()
+                ));
             }
             header_seen = true;
             continue;
         }
         let f: Vec<&str> = line.split(',').map(str::trim).collect();
         if f.len() != 5 {
-            return Err(format!("{}:{n}: expected 5 fields, found {}", path.display(), f.len()));
+            return Err(format!(
+                "{}:{n}: expected 5 fields, found {}",
+                path.display(),
+                f.len()
+            ));
         }
         let names = ["gps_week", "tow_s", "x_m", "y_m", "z_m"];
         let mut v = [0.0; 5];
         for k in 0..5 {
             v[k] = f[k].parse::<f64>().map_err(|_| {
-                format!("{}:{n}: field {} is not a number: {:?}", path.display(), names[k], f[k])
+                format!(
+                    "{}:{n}: field {} is not a number: {:?}",
+                    path.display(),
+                    names[k],
+                    f[k]
+                )
             })?;
         }
         let t = GnssTime::from_week_tow(v[0] as u32, v[1])

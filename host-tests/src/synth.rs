@@ -51,7 +51,13 @@ pub fn constellation(seed: u64, toe: GnssTime, systems: &[System]) -> Constellat
         }
         _ => (u32::try_from(toe.week()).unwrap_or(0), toe.tow_s()),
     };
-    let mut push = |sat: SatId, a_m: f64, inc: f64, omega0: f64, arg_lat: f64, rng: &mut rand::rngs::StdRng, e_max: f64| {
+    let mut push = |sat: SatId,
+                    a_m: f64,
+                    inc: f64,
+                    omega0: f64,
+                    arg_lat: f64,
+                    rng: &mut rand::rngs::StdRng,
+                    e_max: f64| {
         let (week, toe_s) = week_toe(sat.system);
         let omega = rng.random_range(0.0..std::f64::consts::TAU);
         ephemerides.push(BroadcastEphemeris {
@@ -62,7 +68,11 @@ pub fn constellation(seed: u64, toe: GnssTime, systems: &[System]) -> Constellat
             af0: rng.random_range(-3e-4..3e-4),
             af1: rng.random_range(-5e-12..5e-12),
             sqrt_a: a_m.sqrt(),
-            e: if e_max > 0.0 { rng.random_range(0.0..e_max) } else { 0.0 },
+            e: if e_max > 0.0 {
+                rng.random_range(0.0..e_max)
+            } else {
+                0.0
+            },
             i0: inc,
             omega0,
             omega_dot: if a_m > 40.0e6 { 0.0 } else { -8.0e-9 },
@@ -76,13 +86,32 @@ pub fn constellation(seed: u64, toe: GnssTime, systems: &[System]) -> Constellat
         });
     };
     let tau = std::f64::consts::TAU;
-    let mut walker = |system: System, planes: u8, slots: u8, a_m: f64, inc_deg: f64, first_prn: u8, rng: &mut rand::rngs::StdRng| {
+    let mut walker = |system: System,
+                      planes: u8,
+                      slots: u8,
+                      a_m: f64,
+                      inc_deg: f64,
+                      first_prn: u8,
+                      rng: &mut rand::rngs::StdRng| {
         for p in 0..planes {
             for s in 0..slots {
-                let phase = (f64::from(s) / f64::from(slots) + f64::from(p) / f64::from(planes * slots)) * tau;
+                let phase = (f64::from(s) / f64::from(slots)
+                    + f64::from(p) / f64::from(planes * slots))
+                    * tau;
                 let inc = inc_deg.to_radians() + rng.random_range(-0.01..0.01);
                 let node = f64::from(p) / f64::from(planes) * tau;
-                push(SatId { system, prn: p * slots + s + first_prn }, a_m, inc, node, phase, rng, 0.015);
+                push(
+                    SatId {
+                        system,
+                        prn: p * slots + s + first_prn,
+                    },
+                    a_m,
+                    inc,
+                    node,
+                    phase,
+                    rng,
+                    0.015,
+                );
             }
         }
     };
@@ -101,14 +130,33 @@ pub fn constellation(seed: u64, toe: GnssTime, systems: &[System]) -> Constellat
         for k in 0..3u8 {
             let node = 118f64.to_radians() + we * toe_bdt + f64::from(k) * tau / 3.0;
             let arg = -f64::from(k) * tau / 3.0;
-            push(SatId::beidou(6 + k), a_geo, 55f64.to_radians(), node, arg, &mut rng, 0.003);
+            push(
+                SatId::beidou(6 + k),
+                a_geo,
+                55f64.to_radians(),
+                node,
+                arg,
+                &mut rng,
+                0.003,
+            );
         }
         // GEO: with the ICD's −5° tilt, i = 5° and a node at 180° give an equatorial orbit;
         // the argument of latitude λ − 180° puts the satellite over longitude λ at toe.
-        for (k, lon) in [58.75f64, 80.0, 110.5, 140.0, 160.0].into_iter().enumerate() {
+        for (k, lon) in [58.75f64, 80.0, 110.5, 140.0, 160.0]
+            .into_iter()
+            .enumerate()
+        {
             let node = std::f64::consts::PI + we * toe_bdt;
             let arg = lon.to_radians() - std::f64::consts::PI;
-            push(SatId::beidou(1 + k as u8), a_geo, 5f64.to_radians(), node, arg, &mut rng, 0.0);
+            push(
+                SatId::beidou(1 + k as u8),
+                a_geo,
+                5f64.to_radians(),
+                node,
+                arg,
+                &mut rng,
+                0.0,
+            );
         }
     }
     Constellation { ephemerides, toe }
@@ -136,7 +184,10 @@ pub fn rereference(eph: &BroadcastEphemeris, toe: GnssTime) -> BroadcastEphemeri
     let (omega0, m0) = if eph.sat.is_beidou_geo() {
         (eph.omega0 + c.omega_e * (toe_s - eph.toe_s), eph.m0)
     } else {
-        (eph.omega0 + eph.omega_dot * dt - c.omega_e * 604_800.0 * weeks, eph.m0 + n * dt)
+        (
+            eph.omega0 + eph.omega_dot * dt - c.omega_e * 604_800.0 * weeks,
+            eph.m0 + n * dt,
+        )
     };
     let iode = (eph.iode + 1) % 256;
     BroadcastEphemeris {
@@ -319,7 +370,12 @@ mod tests {
             let d = ((a[0] - b[0]).powi(2) + (a[1] - b[1]).powi(2) + (a[2] - b[2]).powi(2)).sqrt();
             assert!(d < 10_000.0, "{:?} moved {d} m", e.sat);
             let g = trackfix_engine::Geodetic::from_ecef(a);
-            assert!(g.lat_rad.to_degrees().abs() < 0.5, "{:?} latitude {}", e.sat, g.lat_rad.to_degrees());
+            assert!(
+                g.lat_rad.to_degrees().abs() < 0.5,
+                "{:?} latitude {}",
+                e.sat,
+                g.lat_rad.to_degrees()
+            );
         }
     }
 }

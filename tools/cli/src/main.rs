@@ -55,6 +55,12 @@ enum Command {
         #[arg(long, default_value = "ge")]
         systems: String,
     },
+    /// Run every row of the dataset manifest and print measured against thresholds.
+    Manifest {
+        /// Also write the table into docs/accuracy.md.
+        #[arg(long)]
+        write_docs: bool,
+    },
 }
 
 fn parse_xyz(s: &str) -> Result<[f64; 3], String> {
@@ -79,6 +85,7 @@ fn main() -> ExitCode {
             truth,
             systems,
         } => replay_cmd(obs, nav, truth, &systems),
+        Command::Manifest { write_docs } => manifest_cmd(write_docs),
     };
     match result {
         Ok(()) => ExitCode::SUCCESS,
@@ -198,4 +205,26 @@ fn replay_cmd(
         );
     }
     Ok(())
+}
+
+fn manifest_cmd(write_docs: bool) -> Result<(), String> {
+    use trackfix_harness::manifest::{splice, table, Manifest, MANIFEST};
+    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../..");
+    let m = Manifest::read(&root.join(MANIFEST))?;
+    let (text, ok) = table(&m.run());
+    println!("{text}");
+    if write_docs {
+        let path = root.join("docs/accuracy.md");
+        let page =
+            std::fs::read_to_string(&path).map_err(|e| format!("{}: {e}", path.display()))?;
+        let new =
+            splice(&page, &text).ok_or("docs/accuracy.md lacks the manifest-table markers")?;
+        std::fs::write(&path, new).map_err(|e| format!("{}: {e}", path.display()))?;
+        println!("wrote {}", path.display());
+    }
+    if ok {
+        Ok(())
+    } else {
+        Err("a row crossed its threshold".into())
+    }
 }
