@@ -3,6 +3,7 @@
 //! the firmware links.
 
 pub mod data;
+pub mod export;
 pub mod manifest;
 pub mod metrics;
 pub mod record;
