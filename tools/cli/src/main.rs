@@ -1,22 +1,37 @@
-//! `trackfix`: run the engine on the built-in demo scenario or on recorded RINEX files.
+//! `trackfix`: run the engine on the built-in demo scenario, on recorded RINEX files or on a
+//! manifest row, and write reports.
 //!
 //! Not for safety-of-life navigation. Positions are estimates; follow local regulations
 //! and licensed practice where a position carries legal or safety weight.
 
+mod plots;
+mod report;
+
 use clap::{Parser, Subcommand};
-use rand::SeedableRng;
-use std::path::PathBuf;
+use indicatif::{ProgressBar, ProgressStyle};
+use std::path::{Path, PathBuf};
 use std::process::ExitCode;
-use trackfix_engine::{
-    Config, Engine, FixOutcome, Geodetic, GnssTime, IonoCoefficients, LocalFrame, System,
-};
-use trackfix_harness::metrics::Stats;
+use std::time::{Duration, Instant};
+use trackfix_engine::Config;
+use trackfix_harness::manifest::{splice, table, Manifest, MANIFEST};
 use trackfix_harness::metrics::Summary;
-use trackfix_harness::replay::{replay, Dataset, Truth};
-use trackfix_harness::synth::{constellation, observe_with, ErrorModel, StaticReceiver};
+use trackfix_harness::record::EpochRecord;
+use trackfix_harness::replay::{read_truth_csv, replay_with_progress, Dataset, Truth};
+use trackfix_harness::scenario;
 
 const CAUTION: &str = "Trackfix output is an estimate: not for safety-of-life navigation; \
 follow local regulations and licensed practice.";
+
+/// The demo: an invented pallet tracker on an invented delivery round.
+const DEMO: &str = r#"
+seed = 2026
+duration_s = 600
+origin = [45.76, 4.84, 170.0]
+motion = "truck"
+systems = ["gps", "galileo"]
+[errors]
+multipath_m = 0.8
+"#;
 
 #[derive(Parser)]
 #[command(name = "trackfix", version, about = "Trackfix positioning engine tools", after_help = CAUTION)]
@@ -27,18 +42,15 @@ struct Cli {
 
 #[derive(Subcommand)]
 enum Command {
-    /// Run the built-in demo: a pallet tracker parked at the (invented) Saltmarsh Lane depot,
-    /// GPS + Galileo, synthetic measurements with noise and atmosphere.
+    /// Run the built-in demo: pallet tracker PT-0417 on a delivery truck through the
+    /// (invented) streets of Old Quay, GPS + Galileo, synthetic measurements.
     Demo {
-        /// Number of one-second epochs.
-        #[arg(long, default_value_t = 120)]
-        epochs: u32,
-        /// Random seed of the scenario.
-        #[arg(long, default_value_t = 2026)]
-        seed: u64,
         /// Print every k-th epoch in the table.
-        #[arg(long, default_value_t = 10)]
-        every: u32,
+        #[arg(long, default_value_t = 20)]
+        every: usize,
+        /// Also write a report (plots, exports, JSON summary) into this folder.
+        #[arg(long)]
+        out: Option<PathBuf>,
     },
     /// Replay a recorded RINEX observation file with its navigation file(s).
     Replay {
@@ -48,12 +60,27 @@ enum Command {
         /// RINEX navigation file(s).
         #[arg(long, required = true, num_args = 1..)]
         nav: Vec<PathBuf>,
-        /// Known marker position "X,Y,Z" in ECEF metres, to measure errors against.
-        #[arg(long, value_parser = parse_xyz)]
+        /// Known marker position "X,Y,Z" in ECEF metres (the header's antenna offset is added).
+        #[arg(long, value_parser = parse_xyz, conflicts_with = "truth_csv")]
         truth: Option<[f64; 3]>,
+        /// Truth trajectory CSV (gps_week,tow_s,x_m,y_m,z_m; see docs/exports.md).
+        #[arg(long)]
+        truth_csv: Option<PathBuf>,
         /// Systems to use, any of g (GPS), e (Galileo), c (BeiDou).
         #[arg(long, default_value = "ge")]
         systems: String,
+        /// Write a report (plots, exports, JSON summary) into this folder.
+        #[arg(long)]
+        out: Option<PathBuf>,
+    },
+    /// Run one row of the dataset manifest (synthetic or recorded) and write its report.
+    Report {
+        /// Row name, as in host-tests/manifest.toml.
+        #[arg(long)]
+        row: String,
+        /// Folder for the report.
+        #[arg(long)]
+        out: PathBuf,
     },
     /// Run every row of the dataset manifest and print measured against thresholds.
     Manifest {
@@ -74,17 +101,16 @@ fn parse_xyz(s: &str) -> Result<[f64; 3], String> {
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let result = match cli.command {
-        Command::Demo {
-            epochs,
-            seed,
-            every,
-        } => demo(epochs, seed, every.max(1)),
+        Command::Demo { every, out } => demo(every.max(1), out.as_deref()),
         Command::Replay {
             obs,
             nav,
             truth,
+            truth_csv,
             systems,
-        } => replay_cmd(obs, nav, truth, &systems),
+            out,
+        } => replay_cmd(obs, nav, truth, truth_csv, &systems, out.as_deref()),
+        Command::Report { row, out } => report_cmd(&row, &out),
         Command::Manifest { write_docs } => manifest_cmd(write_docs),
     };
     match result {
@@ -96,92 +122,73 @@ fn main() -> ExitCode {
     }
 }
 
-fn demo(epochs: u32, seed: u64, every: u32) -> Result<(), String> {
-    println!("Trackfix demo: pallet tracker PT-0417 parked at the Saltmarsh Lane depot (an invented site)");
-    println!("{CAUTION}\n");
-    let start = GnssTime::from_week_tow(2400, 302_000.0).map_err(|e| format!("{e:?}"))?;
-    let cons = constellation(
-        seed,
-        start.add_seconds(1_800.0),
-        &[System::Gps, System::Galileo],
-    );
-    let site = Geodetic::from_degrees(47.62, 8.91, 412.0);
-    let rx = StaticReceiver {
-        position: site.to_ecef(),
-        horizon_deg: 5.0,
-        clock_bias_m: 84_000.0,
-        inter_system_bias_m: 6.5,
-    };
-    let iono = IonoCoefficients {
-        alpha: [1.49e-8, 2.24e-8, -1.19e-7, -1.19e-7],
-        beta: [1.17e5, 1.80e5, -1.31e5, -4.95e5],
-    };
-    let errors = ErrorModel {
-        sigma_m: 0.8,
-        constant_sigma: false,
-        // The true ionosphere is 30 % stronger than the broadcast model says.
-        iono: Some((iono, 1.3)),
-        troposphere: true,
-    };
-    let mut engine: Box<Engine<40, 64>> = Box::new(Engine::new(Config::default()));
-    for e in &cons.ephemerides {
-        engine
-            .ingest_ephemeris(*e)
-            .map_err(|e| format!("ephemeris refused: {e:?}"))?;
-    }
-    engine.set_ionosphere(iono);
-    let frame = LocalFrame::at_ecef(rx.position);
-    let mut rng = rand::rngs::StdRng::seed_from_u64(seed);
-    let (mut h, mut v) = (Vec::new(), Vec::new());
+fn root() -> PathBuf {
+    Path::new(env!("CARGO_MANIFEST_DIR")).join("../..")
+}
+
+fn print_summary(s: &Summary) {
     println!(
-        "{:>9} {:>11} {:>11} {:>8} {:>7} {:>7} {:>7} {:>4} {:>5} fix",
-        "GPS TOW", "lat °", "lon °", "h m", "E m", "N m", "U m", "sats", "HDOP"
+        "{} epochs, {} with a fix ({:.1} %)",
+        s.epochs, s.fixes, s.availability_pct
     );
-    for k in 0..epochs {
-        let t = start.add_seconds(f64::from(k));
-        let epoch = observe_with::<40>(&rx, &cons, t, &errors, &mut rng);
-        let sol = engine.process(&epoch).map_err(|e| format!("{e:?}"))?;
-        let show = k % every == 0;
-        match sol.outcome {
-            FixOutcome::Fix(f) => {
-                let [e, n, u] = frame.enu(f.ecef_m);
-                h.push(e.hypot(n));
-                v.push(u.abs());
-                if show {
-                    println!(
-                        "{:>9.1} {:>11.6} {:>11.6} {:>8.1} {:>7.2} {:>7.2} {:>7.2} {:>4} {:>5.2} {:?}",
-                        sol.time.tow_s(),
-                        f.geodetic.lat_rad.to_degrees(),
-                        f.geodetic.lon_rad.to_degrees(),
-                        f.geodetic.height_m,
-                        e,
-                        n,
-                        u,
-                        f.used,
-                        f.dop.hdop,
-                        f.kind
-                    );
-                }
+    if s.horizontal.count > 0 {
+        println!(
+            "horizontal error 50/95 %: {:.2} / {:.2} m; vertical 50/95 %: {:.2} / {:.2} m; CEP {:.2} m",
+            s.horizontal.p50, s.horizontal.p95, s.vertical.p50, s.vertical.p95, s.cep_m
+        );
+    }
+}
+
+fn demo(every: usize, out: Option<&Path>) -> Result<(), String> {
+    println!("Trackfix demo: pallet tracker PT-0417 on a delivery truck through Old Quay (an invented town)");
+    println!("{CAUTION}\n");
+    let spec = scenario::parse(DEMO, "built-in demo")?;
+    let records = scenario::run(&spec, Config::default())?;
+    println!(
+        "{:>7} {:>11} {:>11} {:>7} {:>6} {:>6} {:>6} {:>4} {:>5} fix",
+        "t s", "lat °", "lon °", "h m", "E m", "N m", "U m", "sats", "HDOP"
+    );
+    let t0 = records.first().map(|r| r.time);
+    for r in records.iter().step_by(every) {
+        let t = t0.map_or(0.0, |t0| r.time.seconds_since(t0));
+        match (r.fix, r.no_fix) {
+            (Some(f), _) => {
+                let [e, n, u] = f.enu_error_m.unwrap_or([f64::NAN; 3]);
+                println!(
+                    "{t:>7.0} {:>11.6} {:>11.6} {:>7.1} {e:>6.2} {n:>6.2} {u:>6.2} {:>4} {:>5.2} {:?}",
+                    f.lat_lon_h[0], f.lat_lon_h[1], f.lat_lon_h[2], f.used, f.hdop, f.kind
+                );
             }
-            FixOutcome::NoFix(reason) if show => {
-                println!("{:>9.1} no fix: {reason:?}", sol.time.tow_s())
-            }
-            FixOutcome::NoFix(_) => {}
+            (None, reason) => println!("{t:>7.0} no fix: {reason:?}"),
         }
     }
-    let (hs, vs) = (Stats::of(&h), Stats::of(&v));
-    println!(
-        "\n{} of {epochs} epochs fixed. Horizontal error 50/95 %: {:.2} / {:.2} m; vertical 50/95 %: {:.2} / {:.2} m",
-        hs.count, hs.p50, hs.p95, vs.p50, vs.p95
-    );
+    println!("\n(E/N/U: error against the scenario's truth)");
+    let s = Summary::of(&records);
+    print_summary(&s);
+    if let Some(dir) = out {
+        report::write(dir, "demo", &records, &s)?;
+        println!("report written to {}", dir.display());
+    }
     Ok(())
+}
+
+fn progress_bar() -> (ProgressBar, Instant) {
+    let bar = ProgressBar::hidden();
+    bar.set_style(
+        ProgressStyle::with_template("{bar:40} {percent:>3}% {elapsed}")
+            .unwrap_or_else(|_| ProgressStyle::default_bar()),
+    );
+    bar.set_length(1000);
+    (bar, Instant::now())
 }
 
 fn replay_cmd(
     obs: PathBuf,
     nav: Vec<PathBuf>,
     truth: Option<[f64; 3]>,
+    truth_csv: Option<PathBuf>,
     systems: &str,
+    out: Option<&Path>,
 ) -> Result<(), String> {
     println!("{CAUTION}");
     let mut cfg = Config::default();
@@ -190,26 +197,82 @@ fn replay_cmd(
         systems.contains('e'),
         systems.contains('c'),
     ];
-    let ds = Dataset {
-        obs,
-        nav,
-        truth: truth.map(Truth::Marker),
+    let truth = match (truth, truth_csv) {
+        (Some(m), _) => Some(Truth::Marker(m)),
+        (None, Some(p)) => Some(Truth::Trajectory(read_truth_csv(&p)?)),
+        (None, None) => None,
     };
-    let results = replay(&ds, cfg).map_err(|e| e.to_string())?;
-    let a = Summary::of(&results);
-    println!("{} epochs, {} fixes", a.epochs, a.fixes);
-    if truth.is_some() {
-        println!(
-            "horizontal 50/95 %: {:.2} / {:.2} m; vertical 50/95 %: {:.2} / {:.2} m",
-            a.horizontal.p50, a.horizontal.p95, a.vertical.p50, a.vertical.p95
-        );
+    let name = obs
+        .file_name()
+        .map_or("replay".into(), |n| n.to_string_lossy().into_owned());
+    let ds = Dataset { obs, nav, truth };
+    // The bar appears only for replays that take longer than a second.
+    let (bar, start) = progress_bar();
+    let records = replay_with_progress(&ds, cfg, |f| {
+        if bar.is_hidden() && start.elapsed() > Duration::from_secs(1) {
+            bar.set_draw_target(indicatif::ProgressDrawTarget::stderr());
+        }
+        bar.set_position((f * 1000.0) as u64);
+    })
+    .map_err(|e| e.to_string())?;
+    bar.finish_and_clear();
+    let s = Summary::of(&records);
+    print_summary(&s);
+    if let Some(dir) = out {
+        report::write(dir, &name, &records, &s)?;
+        println!("report written to {}", dir.display());
     }
     Ok(())
 }
 
+fn report_cmd(row: &str, out: &Path) -> Result<(), String> {
+    println!("{CAUTION}");
+    let m = Manifest::read(&root().join(MANIFEST))?;
+    let records: Vec<EpochRecord> = if let Some(r) = m.scenario.iter().find(|r| r.name == row) {
+        let mut cfg = Config::default();
+        let systems = r.engine_systems.as_deref().unwrap_or(&r.spec.systems);
+        cfg.systems = [false; 3];
+        for s in systems {
+            let sys: trackfix_engine::System = (*s).into();
+            cfg.systems[sys.index()] = true;
+        }
+        scenario::run(&r.spec, cfg)?
+    } else if let Some(r) = m.dataset.iter().find(|r| r.name == row) {
+        let dir = trackfix_harness::data::data_dir()
+            .ok_or("recorded data folder not found (set TRACKFIX_DATA)")?;
+        let mut cfg = Config::default();
+        cfg.systems = [false; 3];
+        for s in &r.systems {
+            let sys: trackfix_engine::System = (*s).into();
+            cfg.systems[sys.index()] = true;
+        }
+        let ds = Dataset {
+            obs: dir.join(&r.obs),
+            nav: r.nav.iter().map(|n| dir.join(n)).collect(),
+            truth: r.marker.map(Truth::Marker),
+        };
+        replay_with_progress(&ds, cfg, |_| {}).map_err(|e| e.to_string())?
+    } else {
+        let names: Vec<&str> = m
+            .scenario
+            .iter()
+            .map(|r| r.name.as_str())
+            .chain(m.dataset.iter().map(|r| r.name.as_str()))
+            .collect();
+        return Err(format!(
+            "no manifest row {row:?}; rows: {}",
+            names.join(", ")
+        ));
+    };
+    let s = Summary::of(&records);
+    print_summary(&s);
+    report::write(out, row, &records, &s)?;
+    println!("report written to {}", out.display());
+    Ok(())
+}
+
 fn manifest_cmd(write_docs: bool) -> Result<(), String> {
-    use trackfix_harness::manifest::{splice, table, Manifest, MANIFEST};
-    let root = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("../..");
+    let root = root();
     let m = Manifest::read(&root.join(MANIFEST))?;
     let (text, ok) = table(&m.run());
     println!("{text}");
