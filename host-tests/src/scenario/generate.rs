@@ -298,6 +298,13 @@ impl Generator {
         let unit = Normal::new(0.0, 1.0).ok();
         let base = self.base.clone();
         for eph in &base {
+            // Cheap visibility test first: one orbit evaluation, 2° of margin for the
+            // ~75 ms of travel time it ignores.
+            let toe = eph.toe().unwrap_or(t_true);
+            let rough = eph.evaluate(t_true.seconds_since(toe) - 0.075, 0.0).pos;
+            if frame.az_el(rough).1.to_degrees() < errs.horizon_deg - 2.0 {
+                continue;
+            }
             let sys = eph.sat.system;
             let clock = self.clock_bias_m + self.isb_m[sys.index()];
             let (pr0, sat_pos) = true_pseudorange(eph, t_true, kin.ecef, clock);

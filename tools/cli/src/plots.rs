@@ -32,6 +32,48 @@ fn minutes(records: &[EpochRecord], r: &EpochRecord) -> f64 {
         .map_or(0.0, |f| r.time.seconds_since(f.time) / 60.0)
 }
 
+/// Splits a time series where epochs are missing (outages, sleep), so lines do not bridge
+/// the gaps.
+fn segments(pts: &[(f64, f64)]) -> Vec<Vec<(f64, f64)>> {
+    let mut out: Vec<Vec<(f64, f64)>> = Vec::new();
+    let mut steps: Vec<f64> = pts.windows(2).map(|w| w[1].0 - w[0].0).collect();
+    steps.sort_by(f64::total_cmp);
+    let typical = steps.get(steps.len() / 2).copied().unwrap_or(0.0);
+    for (i, p) in pts.iter().enumerate() {
+        let gap = i > 0 && p.0 - pts[i - 1].0 > 2.5 * typical;
+        if out.is_empty() || gap {
+            out.push(Vec::new());
+        }
+        if let Some(last) = out.last_mut() {
+            last.push(*p);
+        }
+    }
+    out
+}
+
+fn draw_broken<DB: DrawingBackend>(
+    c: &mut ChartContext<
+        '_,
+        DB,
+        Cartesian2d<plotters::coord::types::RangedCoordf64, plotters::coord::types::RangedCoordf64>,
+    >,
+    pts: &[(f64, f64)],
+    colour: RGBColor,
+    label: &str,
+) -> Res {
+    for (k, seg) in segments(pts).into_iter().enumerate() {
+        let series = c
+            .draw_series(LineSeries::new(seg, &colour))
+            .map_err(|e| e.to_string())?;
+        if k == 0 {
+            series
+                .label(label.to_string())
+                .legend(move |(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], colour));
+        }
+    }
+    Ok(())
+}
+
 fn max_or(v: impl Iterator<Item = f64>, floor: f64) -> f64 {
     v.fold(floor, f64::max)
 }
@@ -65,14 +107,10 @@ pub fn error_vs_time(path: &Path, title: &str, records: &[EpochRecord]) -> Res {
         .y_desc("metres")
         .draw()
         .map_err(e)?;
-    c.draw_series(LineSeries::new(pts.iter().map(|p| (p.0, p.1)), &INK))
-        .map_err(e)?
-        .label("horizontal")
-        .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], INK));
-    c.draw_series(LineSeries::new(pts.iter().map(|p| (p.0, p.2)), &EMBER))
-        .map_err(e)?
-        .label("up")
-        .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], EMBER));
+    let h: Vec<(f64, f64)> = pts.iter().map(|p| (p.0, p.1)).collect();
+    let u: Vec<(f64, f64)> = pts.iter().map(|p| (p.0, p.2)).collect();
+    draw_broken(&mut c, &h, INK, "horizontal")?;
+    draw_broken(&mut c, &u, EMBER, "up")?;
     c.configure_series_labels()
         .background_style(WHITE.mix(0.8))
         .border_style(BLACK)
@@ -310,14 +348,10 @@ pub fn dop(path: &Path, title: &str, records: &[EpochRecord]) -> Res {
         .build_cartesian_2d(0.0..t1, 0.0..ymax)
         .map_err(e)?;
     c.configure_mesh().y_desc("DOP").draw().map_err(e)?;
-    c.draw_series(LineSeries::new(pts.iter().map(|p| (p.0, p.1)), &INK))
-        .map_err(e)?
-        .label("PDOP")
-        .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], INK));
-    c.draw_series(LineSeries::new(pts.iter().map(|p| (p.0, p.2)), &EMBER))
-        .map_err(e)?
-        .label("HDOP")
-        .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], EMBER));
+    let pd: Vec<(f64, f64)> = pts.iter().map(|p| (p.0, p.1)).collect();
+    let hd: Vec<(f64, f64)> = pts.iter().map(|p| (p.0, p.2)).collect();
+    draw_broken(&mut c, &pd, INK, "PDOP")?;
+    draw_broken(&mut c, &hd, EMBER, "HDOP")?;
     c.configure_series_labels()
         .border_style(BLACK)
         .draw()
@@ -334,7 +368,7 @@ pub fn dop(path: &Path, title: &str, records: &[EpochRecord]) -> Res {
         .y_desc("used")
         .draw()
         .map_err(e)?;
-    c2.draw_series(LineSeries::new(pts.iter().map(|p| (p.0, p.3)), &MOSS))
-        .map_err(e)?;
+    let used: Vec<(f64, f64)> = pts.iter().map(|p| (p.0, p.3)).collect();
+    draw_broken(&mut c2, &used, MOSS, "used")?;
     root.present().map_err(e)
 }

@@ -10,8 +10,9 @@
 //! 5. the firmware example built for the target;
 //! 6. every test of the workspace (release mode: the real-data replays are faster);
 //! 7. the benchmarks compile;
-//! 8. the Python reference vectors regenerated with pinned versions and compared with the
-//!    committed files (skipped, loudly, where Python is absent).
+//! 8. with pinned Python packages: the reference vectors regenerated and compared with the
+//!    committed files; the demo report's GPX validated against the GPX 1.1 schema and its
+//!    NMEA parsed by pynmea2 (skipped, loudly, where Python is absent).
 
 use std::path::{Path, PathBuf};
 use std::process::{Command, ExitCode};
@@ -279,6 +280,36 @@ fn vectors(r: &mut Runner, write: bool) {
         ],
     ) {
         return;
+    }
+    if !write {
+        let out = root.join("target/export-check");
+        let out_s = out.to_string_lossy().into_owned();
+        if r.run(
+            "demo report for the export checks",
+            &root,
+            "cargo",
+            &[
+                "run",
+                "--quiet",
+                "--release",
+                "-p",
+                "trackfix-tools",
+                "--",
+                "demo",
+                "--every",
+                "600",
+                "--out",
+                &out_s,
+            ],
+        ) {
+            let script = dir.join("check_exports.py").to_string_lossy().into_owned();
+            r.run(
+                "GPX schema and NMEA (pynmea2) checks",
+                &root,
+                &vpy_s,
+                &[&script, &out_s],
+            );
+        }
     }
     for (script, file) in [("gen_frames.py", "frames_pymap3d.csv")] {
         println!("\nxtask: == regenerate {file}");
