@@ -88,3 +88,30 @@ fn precise_orbit_file_reads() {
     let epochs: std::collections::BTreeSet<_> = p.iter().map(|x| x.time).collect();
     assert_eq!(epochs.len(), 96);
 }
+
+// A real observation file cut in the middle of an epoch: the reader names the file and the
+// line where it ran out.
+#[test]
+fn truncated_real_file_names_file_and_line() {
+    let Some(dir) = data_dir_or_skip("truncated_real_file_names_file_and_line") else {
+        return;
+    };
+    let f = "esbc_2020177/ESBC00DNK_R_20201770000_01D_30S_MO_first2h.rnx";
+    let text = std::fs::read_to_string(dir.join(f)).unwrap();
+    let lines: Vec<&str> = text.lines().collect();
+    let cut = lines.len() / 2;
+    // Cut inside an epoch: after the epoch line plus one satellite line.
+    let epoch_line = (0..cut).rev().find(|&i| lines[i].starts_with('>')).unwrap();
+    let truncated = lines[..epoch_line + 2].join("\n");
+    let tmp = std::env::temp_dir().join("trackfix-truncated.rnx");
+    std::fs::write(&tmp, truncated).unwrap();
+    let errors: Vec<_> = ObsReader::open(&tmp)
+        .unwrap()
+        .filter_map(Result::err)
+        .collect();
+    assert_eq!(errors.len(), 1);
+    let e = &errors[0];
+    assert!(e.to_string().contains("trackfix-truncated.rnx"), "{e}");
+    assert_eq!(e.line, epoch_line + 2);
+    assert!(e.what.contains("ends inside an epoch"), "{e}");
+}

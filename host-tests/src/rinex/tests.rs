@@ -166,3 +166,50 @@ fn reads_v4_klobuchar_record_and_skips_other_messages() {
     assert_eq!(k.beta, [9.6256e4, 1.31072e5, -6.5536e4, -5.89824e5]);
     assert!(f.records.is_empty());
 }
+
+mod never_panics {
+    use super::*;
+    use proptest::prelude::*;
+
+    const V3_NAV: &str =
+        "     3.05           NAVIGATION DATA     MIXED               RINEX VERSION / TYPE
+GPSA   4.6566e-09  1.4901e-08 -5.9605e-08 -1.1921E-07       IONOSPHERIC CORR
+                                                            END OF HEADER
+G01 2020 06 25 04 00 00 1.604342833161e-05 7.048583938740e-12 0.000000000000e+00
+     5.800000000000e+01-3.968750000000e+01 4.304822170265e-09 6.342094507864e-01
+    -2.177432179451e-06 1.000394229777e-02 1.937150955200e-06 5.153707128525e+03
+     3.600000000000e+05-1.508742570877e-07 2.572838528869e+00 1.359730958939e-07
+     9.806518601091e-01 3.539687500000e+02 7.941703015008e-01-8.384634967987e-09
+    -5.714523747137e-11 1.000000000000e+00 2.111000000000e+03 0.000000000000e+00
+     2.000000000000e+00 0.000000000000e+00 5.122274160385e-09 5.800000000000e+01
+     3.561060000000e+05 4.000000000000e+00
+";
+
+    proptest! {
+        #![proptest_config(ProptestConfig::with_cases(400))]
+        // Property: corrupting any bytes of a valid file (or cutting it anywhere) gives
+        // records or a named error, never a panic.
+        #[test]
+        fn corrupted_files_give_errors_not_panics(
+            flips in proptest::collection::vec((any::<prop::sample::Index>(), any::<u8>()), 0..8),
+            cut in any::<prop::sample::Index>(),
+        ) {
+            for text in [V3_NAV.to_string(), v3_obs("> 2020 06 25 00 00 00.0000000  0  1\nG01  21000000.123 5      -100.500 5        45.250\n")] {
+                let mut bytes = text.into_bytes();
+                for (i, b) in &flips {
+                    let k = i.index(bytes.len());
+                    bytes[k] = *b;
+                }
+                bytes.truncate(cut.index(bytes.len() + 1));
+                let _ = NavFile::parse(Cursor::new(bytes.clone()), Path::new("fuzz.rnx"));
+                if let Ok(r) = ObsReader::new(Cursor::new(bytes), Path::new("fuzz.rnx")) {
+                    for e in r {
+                        if let Err(e) = e {
+                            prop_assert!(e.to_string().starts_with("fuzz.rnx:"));
+                        }
+                    }
+                }
+            }
+        }
+    }
+}
