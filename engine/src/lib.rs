@@ -19,7 +19,7 @@
 #![no_std]
 #![forbid(unsafe_code)]
 #![deny(missing_docs)]
-#![cfg_attr(test, allow(clippy::needless_range_loop))]
+#![cfg_attr(test, allow(clippy::needless_range_loop, clippy::arithmetic_side_effects))]
 
 pub mod config;
 pub mod engine;
@@ -33,6 +33,7 @@ mod solve;
 pub mod store;
 pub mod time;
 pub mod tropo;
+pub mod wire;
 
 pub use config::Config;
 pub use engine::{Engine, EpochError};
