@@ -166,8 +166,9 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         for (o, &i) in outcomes.iter().zip(cand_index.iter()) {
             if let Some(s) = sats.get_mut(i) {
                 if let Some((el, az)) = o.el_az {
-                    s.elevation_deg = Some(el.to_degrees() as f32);
-                    s.azimuth_deg = Some(az.to_degrees() as f32);
+                    s.elevation_deg = Some(el.to_degrees());
+                    let az = az.to_degrees();
+                    s.azimuth_deg = Some(if az < 0.0 { az + 360.0 } else { az });
                 }
                 if o.masked {
                     s.status = SatStatus::BelowMask;
@@ -246,18 +247,19 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         let dtsv = held.eph.clock_polynomial_s(dt_toc);
         let state = held.eph.evaluate(dt_toe - dtsv, dt_toc - dtsv);
         let clock_s = state.clock_s - held.eph.group_delay_s(obs.signal);
+        // σ grows as √(10^(deficit/10)) = 10^(deficit/20); single precision is ample for a
+        // weight.
         let cn0_factor = cn0.map_or(1.0, |c| {
-            let deficit = f64::from(cfg.cn0_reference_dbhz - c).max(0.0);
-            libm::sqrt(libm::pow(10.0, deficit / 10.0))
+            let deficit = (cfg.cn0_reference_dbhz - c).max(0.0);
+            libm::powf(10.0, deficit / 20.0)
         });
         Ok(Candidate {
             pos: state.pos,
-            omega_e: system.constants().omega_e,
             clock_m: clock_s * SPEED_OF_LIGHT,
             pr_m: pr,
             sys: system.index(),
             cn0_factor,
-            iono_scale: obs.signal.iono_scale_from_l1(),
+            iono_scale: obs.signal.iono_scale_from_l1() as f32,
         })
     }
 }

@@ -5,12 +5,13 @@
 //! BeiDou MEO/IGSO (B1I ICD §5.2.4.12), parameterised by [`OrbitConstants`]; BeiDou GEO
 //! satellites take the ICD's extra −5° tilt and Earth-rotation step.
 //!
-//! Cost: one Kepler solve (≤ 8 Newton steps, typically 3–4), 7 sin/cos pairs, 2 atan2 and
-//! 3 sqrt per evaluation; evaluate each satellite once per epoch.
+//! Cost: 4 sin/cos pairs (M, ω, i, Ω; one more in Kepler's iteration when e > 0.02, two more
+//! for BeiDou GEO), 2 sqrt and a few dozen multiplications per evaluation; evaluate each
+//! satellite once per epoch.
 
 use crate::sat::{OrbitConstants, SatId, Signal, System};
 use crate::time::{wrap_half_week, GnssTime, TimeError};
-use libm::{atan2, cos, sin, sqrt};
+use libm::{cos, sin, sqrt};
 
 /// One broadcast ephemeris and clock set, in the symbols of IS-GPS-200.
 ///
@@ -233,6 +234,10 @@ impl BroadcastEphemeris {
 
     /// Evaluates the orbit and clock at `tk_s` seconds from toe (crossover-wrapped here),
     /// with `dt_toc_s` seconds from toc for the clock.
+    ///
+    /// Trigonometry is kept to four sine/cosine pairs (M, ω, i, Ω): ν and 2Φ come from
+    /// identities, the small harmonic corrections from their series, and Kepler's iteration
+    /// updates sin E and cos E incrementally.
     pub fn evaluate(&self, tk_s: f64, dt_toc_s: f64) -> SatState {
         let c: &OrbitConstants = self.sat.system.constants();
         let tk = wrap_half_week(tk_s);
@@ -240,20 +245,23 @@ impl BroadcastEphemeris {
         let n0 = sqrt(c.mu / (a * a * a));
         let n = n0 + self.delta_n;
         let mk = self.m0 + n * tk;
-        let ek = solve_kepler(mk, self.e);
-        let (se, ce) = (sin(ek), cos(ek));
+        let (ek, se, ce) = solve_kepler(mk, self.e);
         let one_minus_ecos = 1.0 - self.e * ce;
         let sq1me2 = sqrt(1.0 - self.e * self.e);
-        let nu = atan2(sq1me2 * se, ce - self.e);
-        let phi = nu + self.omega;
-        let (s2, c2) = (sin(2.0 * phi), cos(2.0 * phi));
+        // True anomaly ν through its sine and cosine (IS-GPS-200 Table 20-IV).
+        let (snu, cnu) = (sq1me2 * se / one_minus_ecos, (ce - self.e) / one_minus_ecos);
+        let (sw, cw) = (sin(self.omega), cos(self.omega));
+        // Φ = ν + ω, and 2Φ by the double-angle identities.
+        let (sp, cp) = (snu * cw + cnu * sw, cnu * cw - snu * sw);
+        let (s2, c2) = (2.0 * sp * cp, cp * cp - sp * sp);
         let du = self.cus * s2 + self.cuc * c2;
         let dr = self.crs * s2 + self.crc * c2;
         let di = self.cis * s2 + self.cic * c2;
-        let u = phi + du;
+        // u = Φ + δu with |δu| < 1e-4 rad: the series below are exact to 1e-20.
+        let (sdu, cdu) = small_sin_cos(du);
+        let (su, cu) = (sp * cdu + cp * sdu, cp * cdu - sp * sdu);
         let r = a * one_minus_ecos + dr;
         let i = self.i0 + di + self.idot * tk;
-        let (su, cu) = (sin(u), cos(u));
         let (si, ci) = (sin(i), cos(i));
         let xp = r * cu;
         let yp = r * su;
@@ -306,6 +314,15 @@ impl BroadcastEphemeris {
     }
 }
 
+/// sin and cos of a small angle by their series: exact to the last bit of an f64 for
+/// |x| < 0.02 (the first omitted term is below x⁸/8! ≈ 6e-18).
+fn small_sin_cos(x: f64) -> (f64, f64) {
+    let x2 = x * x;
+    let s = x * (1.0 - x2 / 6.0 * (1.0 - x2 / 20.0 * (1.0 - x2 / 42.0)));
+    let c = 1.0 - x2 / 2.0 * (1.0 - x2 / 12.0 * (1.0 - x2 / 30.0));
+    (s, c)
+}
+
 /// The absolute time of a week and time of week in `system`'s own scale.
 fn system_time(system: System, week: u32, tow_s: f64) -> Result<GnssTime, TimeError> {
     match system {
@@ -318,23 +335,32 @@ fn system_time(system: System, week: u32, tow_s: f64) -> Result<GnssTime, TimeEr
     }
 }
 
-/// Solves Kepler's equation M = E − e·sin E by Newton's method from E = M (quadratic
-/// convergence: 3–4 steps to 1e-14 rad for GPS-like e ≈ 0.01, ≤ 7 for e < 0.3).
-fn solve_kepler(m: f64, e: f64) -> f64 {
-    let mut ek = m;
+/// Solves Kepler's equation M = E − e·sin E by Newton's method from E = M, returning E,
+/// sin E and cos E (quadratic convergence: 3–4 steps to 1e-14 rad for GPS-like e ≈ 0.01,
+/// ≤ 7 for e < 0.3). sin E and cos E are carried along by the angle-addition formulas, with
+/// the series of [`small_sin_cos`] for small steps, so a GPS orbit needs only sin M and cos M.
+fn solve_kepler(m: f64, e: f64) -> (f64, f64, f64) {
+    let (mut ek, mut se, mut ce) = (m, sin(m), cos(m));
     for _ in 0..10 {
-        let d = (m - ek + e * sin(ek)) / (1.0 - e * cos(ek));
+        let d = (m - ek + e * se) / (1.0 - e * ce);
         ek += d;
+        let (sd, cd) = if d.abs() < 0.02 {
+            small_sin_cos(d)
+        } else {
+            (sin(d), cos(d))
+        };
+        (se, ce) = (se * cd + ce * sd, ce * cd - se * sd);
         if d.abs() < 1e-14 {
             break;
         }
     }
-    ek
+    (ek, se, ce)
 }
 
 /// B1I ICD §5.2.4.12: GEO position = Rz(Ω̇e·tk)·Rx(−5°)·(XG, YG, ZG).
 fn beidou_geo_rotation(p: [f64; 3], v: [f64; 3], omega_e: f64, tk: f64) -> ([f64; 3], [f64; 3]) {
-    let (sx, cx) = (sin(-5f64.to_radians()), cos(-5f64.to_radians()));
+    // sin(−5°), cos(−5°).
+    let (sx, cx) = (-0.087_155_742_747_658_17, 0.996_194_698_091_745_5);
     let rx = |a: [f64; 3]| [a[0], cx * a[1] + sx * a[2], -sx * a[1] + cx * a[2]];
     let (sz, cz) = (sin(omega_e * tk), cos(omega_e * tk));
     let rz = |a: [f64; 3]| [cz * a[0] + sz * a[1], -sz * a[0] + cz * a[1], a[2]];

@@ -130,8 +130,10 @@ fn kepler_converges_across_accepted_eccentricities() {
     for e in [0.0, 0.01, 0.17, 0.29] {
         for k in 0..64 {
             let m = -core::f64::consts::PI + f64::from(k) * 0.1;
-            let ek = solve_kepler(m, e);
+            let (ek, se, ce) = solve_kepler(m, e);
             assert!((ek - e * libm::sin(ek) - m).abs() < 1e-12, "e {e} M {m}");
+            // The carried sine and cosine match fresh ones to 1e-14.
+            assert!((se - libm::sin(ek)).abs() < 1e-14 && (ce - libm::cos(ek)).abs() < 1e-14);
         }
     }
 }

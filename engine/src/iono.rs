@@ -66,6 +66,46 @@ impl IonoCoefficients {
     }
 }
 
+impl IonoCoefficients {
+    /// The same model in single precision, for the per-epoch path on an FPU that has only
+    /// f32 (Cortex-M4F): azimuth enters through its sine and cosine (no atan2 needed), the
+    /// time of week through the local-time term only. `iono_tests.rs` bounds the difference
+    /// from [`IonoCoefficients::delay_l1_m`] at 1 mm over the whole model domain.
+    pub fn delay_l1_m_f32(
+        &self,
+        lat_rad: f32,
+        lon_rad: f32,
+        sin_az: f32,
+        cos_az: f32,
+        el_rad: f32,
+        tow_s: f64,
+    ) -> f32 {
+        const PI: f32 = core::f32::consts::PI;
+        let e = el_rad / PI;
+        let psi = 0.0137 / (e + 0.11) - 0.022;
+        let phi_i = (lat_rad / PI + psi * cos_az).clamp(-0.416, 0.416);
+        let lam_i = lon_rad / PI + psi * sin_az / libm::cosf(phi_i * PI);
+        let phi_m = phi_i + 0.064 * libm::cosf((lam_i - 1.617) * PI);
+        // Local time in f64 first: the time of week needs 20 bits before the reduction.
+        let t = (43_200.0 * f64::from(lam_i) + tow_s) % 86_400.0;
+        let t = (if t < 0.0 { t + 86_400.0 } else { t }) as f32;
+        let f = 1.0 + 16.0 * (0.53 - e) * (0.53 - e) * (0.53 - e);
+        let poly = |c: &[f64; 4]| {
+            let c = c.map(|x| x as f32);
+            c[0] + phi_m * (c[1] + phi_m * (c[2] + phi_m * c[3]))
+        };
+        let amp = poly(&self.alpha).max(0.0);
+        let per = poly(&self.beta).max(72_000.0);
+        let x = 2.0 * PI * (t - 50_400.0) / per;
+        let delay_s = if x.abs() < 1.57 {
+            f * (5e-9 + amp * (1.0 - x * x / 2.0 + x * x * x * x / 24.0))
+        } else {
+            f * 5e-9
+        };
+        delay_s * 299_792_458.0
+    }
+}
+
 #[cfg(test)]
 #[path = "iono_tests.rs"]
 mod tests;

@@ -19,7 +19,10 @@
 #![no_std]
 #![forbid(unsafe_code)]
 #![deny(missing_docs)]
-#![cfg_attr(test, allow(clippy::needless_range_loop, clippy::arithmetic_side_effects))]
+#![cfg_attr(
+    test,
+    allow(clippy::needless_range_loop, clippy::arithmetic_side_effects)
+)]
 
 pub mod config;
 pub mod engine;

@@ -6,21 +6,23 @@
 //! matrix), so the 6×6 solve is the same size every epoch and never singular on its account.
 //!
 //! Corrections that need the receiver's position (elevation mask, ionosphere, troposphere,
-//! elevation weights) switch on once the iteration is within 1 km of a point near the Earth;
-//! before that every satellite has unit weight. Satellite positions are not re-evaluated per
+//! elevation weights) switch on once the iteration is within 1 km of a point near the Earth
+//! and are then computed once (again only if the solution moves by more than 1 km); before
+//! that every satellite has unit weight. Satellite positions are not re-evaluated per
 //! iteration: only the Earth-rotation (Sagnac) rotation over the travel time is.
 //!
-//! Cost per iteration and satellite: 1 sqrt for the range, 2 atan2 + sin + cos for
-//! azimuth/elevation and Klobuchar, 1 sqrt for the troposphere mapping, a rank-one update of
-//! the 6×6 normal matrix; per iteration one 6×6 Cholesky and one geodetic conversion.
+//! Cost per iteration and satellite: 1 sqrt for the range and a rank-one update of the 6×6
+//! normal matrix; once per epoch and satellite 2 atan2, 3 cos, 1 sin and 2 sqrt for
+//! azimuth/elevation, Klobuchar and the troposphere mapping; per iteration one 6×6
+//! Cholesky; once per epoch one geodetic conversion and the standard atmosphere.
 
 use crate::config::Config;
 use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
 use crate::iono::IonoCoefficients;
-use crate::sat::SPEED_OF_LIGHT;
+use crate::sat::{System, SPEED_OF_LIGHT};
 use crate::solution::{Dop, Fix, FixKind, IonoCorrection, NoFixReason};
 use crate::tropo::ZenithDelay;
-use libm::{atan2, sin, sqrt};
+use libm::{sin, sqrt};
 use nalgebra::{Cholesky, SMatrix, SVector};
 
 type Mat6 = SMatrix<f64, 6, 6>;
@@ -30,13 +32,14 @@ type Vec6 = SVector<f64, 6>;
 /// mask of 0°) gets a large but finite σ.
 const MIN_SIN_EL: f64 = 0.05;
 
+/// The shortest range to a navigation satellite from the ground, m (MEO at zenith).
+const MIN_RANGE_M: f64 = 1.9e7;
+
 /// A satellite ready for the solution: its state at transmit time and its measurement.
 #[derive(Clone, Copy, Debug)]
 pub(crate) struct Candidate {
     /// Satellite ECEF position at transmit time, m.
     pub pos: [f64; 3],
-    /// Earth rotation rate of the satellite's system, rad/s (for the Sagnac rotation).
-    pub omega_e: f64,
     /// Satellite clock offset including relativity and group delay, metres.
     pub clock_m: f64,
     /// Pseudorange, m.
@@ -44,9 +47,18 @@ pub(crate) struct Candidate {
     /// Index of the system's clock state (0, 1, 2).
     pub sys: usize,
     /// Multiplier of σ from C/N0 (≥ 1).
-    pub cn0_factor: f64,
+    pub cn0_factor: f32,
     /// Ionospheric scale from L1 to this signal's frequency.
-    pub iono_scale: f64,
+    pub iono_scale: f32,
+}
+
+impl Candidate {
+    /// Earth rotation rate of the satellite's system, rad/s (for the Sagnac rotation).
+    fn omega_e(&self) -> f64 {
+        System::ALL
+            .get(self.sys)
+            .map_or(crate::sat::GPS_CONSTANTS.omega_e, |s| s.constants().omega_e)
+    }
 }
 
 /// What the solution made of one candidate.
@@ -57,11 +69,13 @@ pub(crate) struct Outcome {
     /// Below the elevation mask at the final position.
     pub masked: bool,
     /// Elevation and azimuth, rad, once corrections were on.
-    pub el_az: Option<(f64, f64)>,
+    pub el_az: Option<(f32, f32)>,
     /// Post-fit residual, m.
     pub residual_m: f64,
     /// σ given, m.
     pub sigma_m: f64,
+    /// Ionosphere and troposphere delay applied, m.
+    pub delay_m: f64,
     /// Partial derivatives row (−unit line of sight), kept for the post-fit residual.
     row: [f64; 3],
 }
@@ -91,11 +105,21 @@ pub(crate) fn solve(
     let mut corrections_on = norm(pos) > 6.0e6;
     let iono = setup.iono.filter(|c| cfg.ionosphere && c.is_finite());
     let mut iterations = 0u8;
+    let mut corr_at: Option<[f64; 3]> = None;
+    let mut geo = Geodetic::default();
+    let mut frame = LocalFrame::new(pos, &geo);
     loop {
         iterations = iterations.saturating_add(1);
-        let geo = Geodetic::from_ecef(pos);
-        let frame = LocalFrame::new(pos, &geo);
-        let zenith = (corrections_on && cfg.troposphere)
+        // Elevation, mask, atmosphere and weights change by far less than the noise over a
+        // kilometre: compute them once near the Earth, again only if the solution moves
+        // more than 1 km from where they were computed.
+        let refresh = corrections_on && corr_at.is_none_or(|p| norm(sub(pos, p)) > 1_000.0);
+        if refresh {
+            geo = Geodetic::from_ecef(pos);
+            frame = LocalFrame::new(pos, &geo);
+            corr_at = Some(pos);
+        }
+        let zenith = (refresh && cfg.troposphere)
             .then(|| ZenithDelay::standard_atmosphere(geo.lat_rad, geo.height_m));
         let mut normal = Mat6::zeros();
         let mut geometry = Mat6::zeros();
@@ -103,52 +127,79 @@ pub(crate) fn solve(
         let mut present = [false; 3];
         let mut used = 0u8;
         for (c, o) in cands.iter().zip(out.iter_mut()) {
-            *o = Outcome::default();
-            let sat = sagnac(c.pos, pos, c.omega_e);
+            o.used = false;
+            let sat = sagnac(c.pos, pos, c.omega_e());
             let los = sub(sat, pos);
             let rho = norm(los);
             if rho <= 0.0 {
                 continue;
             }
             let u = [los[0] / rho, los[1] / rho, los[2] / rho];
-            let (mut delay, mut sigma) = (0.0, 1.0);
-            if corrections_on {
+            if refresh {
                 let [e, n, up] = frame.rotate(u);
-                let el = atan2(up, sqrt(e * e + n * n));
-                let az = atan2(e, n);
+                // Elevation and azimuth only feed the ionosphere model and reports: single
+                // precision is ample (iono_tests.rs bounds the model's f32 error at 1 mm).
+                let hor = sqrt(e * e + n * n);
+                let el = libm::atan2f(up as f32, hor as f32);
+                let az = libm::atan2f(e as f32, n as f32);
                 o.el_az = Some((el, az));
-                if up < sin_mask {
-                    o.masked = true;
-                    continue;
-                }
+                o.masked = up < sin_mask;
+                let mut delay = 0.0;
                 if let Some(k) = iono {
-                    delay +=
-                        c.iono_scale * k.delay_l1_m(geo.lat_rad, geo.lon_rad, az, el, setup.tow_s);
+                    let (sa, ca) = if hor > 0.0 {
+                        ((e / hor) as f32, (n / hor) as f32)
+                    } else {
+                        (0.0, 1.0)
+                    };
+                    let d = k.delay_l1_m_f32(
+                        geo.lat_rad as f32,
+                        geo.lon_rad as f32,
+                        sa,
+                        ca,
+                        el,
+                        setup.tow_s,
+                    );
+                    delay += f64::from(c.iono_scale * d);
                 }
                 if let Some(z) = &zenith {
                     delay += z.slant_m(up);
                 }
-                sigma =
-                    (cfg.sigma_floor_m + cfg.sigma_elevation_m / up.max(MIN_SIN_EL)) * c.cn0_factor;
+                o.delay_m = delay;
+                o.sigma_m = (cfg.sigma_floor_m + cfg.sigma_elevation_m / up.max(MIN_SIN_EL))
+                    * f64::from(c.cn0_factor);
+            } else if !corrections_on {
+                o.delay_m = 0.0;
+                o.sigma_m = 1.0;
+            }
+            if o.masked {
+                continue;
             }
             let clock = clk.get(c.sys).copied().unwrap_or(0.0);
-            let v = c.pr_m - (rho + clock - c.clock_m + delay);
-            let h = row(u, c.sys);
-            let w = 1.0 / (sigma * sigma);
-            normal += h * h.transpose() * w;
-            geometry += h * h.transpose();
-            rhs += h * (v * w);
+            let v = c.pr_m - (rho + clock - c.clock_m + o.delay_m);
+            let w = 1.0 / (o.sigma_m * o.sigma_m);
+            // The row has four non-zeros (−LOS and this system's clock): update only those.
+            let idx = [0, 1, 2, c.sys.saturating_add(3)];
+            let val = [-u[0], -u[1], -u[2], 1.0];
+            for (&i, &a) in idx.iter().zip(val.iter()) {
+                for (&j, &b) in idx.iter().zip(val.iter()) {
+                    if let Some(x) = normal.get_mut((i, j)) {
+                        *x += a * b * w;
+                    }
+                    if let Some(x) = geometry.get_mut((i, j)) {
+                        *x += a * b;
+                    }
+                }
+                if let Some(x) = rhs.get_mut(i) {
+                    *x += a * v * w;
+                }
+            }
             if let Some(p) = present.get_mut(c.sys) {
                 *p = true;
             }
             used = used.saturating_add(1);
-            *o = Outcome {
-                used: true,
-                residual_m: v,
-                sigma_m: sigma,
-                row: [-u[0], -u[1], -u[2]],
-                ..*o
-            };
+            o.used = true;
+            o.residual_m = v;
+            o.row = [-u[0], -u[1], -u[2]];
         }
         let systems = present.iter().filter(|p| **p).count() as u8;
         let unknowns = 3u8.saturating_add(systems);
@@ -161,12 +212,14 @@ pub(crate) fn solve(
         if used < unknowns {
             match hold {
                 Some(h_hold) if used.saturating_add(1) >= unknowns && used >= 3 => {
-                    let up = frame.axes[2];
+                    // The held height needs the exact height at this iteration's position.
+                    let here = Geodetic::from_ecef(pos);
+                    let up = LocalFrame::new(pos, &here).axes[2];
                     let h = Vec6::new(up[0], up[1], up[2], 0.0, 0.0, 0.0);
                     let w = 1.0 / (cfg.altitude_hold_sigma_m * cfg.altitude_hold_sigma_m);
                     normal += h * h.transpose() * w;
                     geometry += h * h.transpose();
-                    rhs += h * ((h_hold - geo.height_m) * w);
+                    rhs += h * ((h_hold - here.height_m) * w);
                     kind = FixKind::TwoD;
                 }
                 _ => {
@@ -196,10 +249,12 @@ pub(crate) fn solve(
         pos = [pos[0] + d[0], pos[1] + d[1], pos[2] + d[2]];
         clk = [clk[0] + d[3], clk[1] + d[4], clk[2] + d[5]];
         let step = norm([d[0], d[1], d[2]]);
-        if corrections_on && step < cfg.convergence_m {
+        // After a Gauss–Newton step of length s the range linearisation leaves an error of
+        // about s²/(2ρ) with ρ ≥ 19,000 km: converged when that is below the tolerance.
+        if corrections_on && step * step / (2.0 * MIN_RANGE_M) < cfg.convergence_m {
             let dpos = [d[0], d[1], d[2]];
             return finish(
-                FinishInput {
+                &FinishInput {
                     pos,
                     clk,
                     present,
@@ -242,7 +297,7 @@ struct FinishInput<'a> {
 }
 
 fn finish(
-    f: FinishInput<'_>,
+    f: &FinishInput<'_>,
     cands: &[Candidate],
     out: &mut [Outcome],
 ) -> Result<Fix, NoFixReason> {
@@ -267,10 +322,8 @@ fn finish(
         .inverse();
     let q = enu_block(&frame, &ginv);
     let first = f.present.iter().position(|p| *p).unwrap_or(0);
-    let g: [[f64; 6]; 6] = ginv.into();
-    let tdop2 = g
-        .get(first.saturating_add(3))
-        .and_then(|col| col.get(first.saturating_add(3)))
+    let tdop2 = ginv
+        .get((first.saturating_add(3), first.saturating_add(3)))
         .copied()
         .unwrap_or(0.0);
     let hdop2 = q[0][0] + q[1][1];
@@ -308,8 +361,7 @@ fn finish(
 
 /// The position block of a 6×6 ECEF covariance rotated to east/north/up: R·Q·Rᵀ.
 fn enu_block(frame: &LocalFrame, q6: &Mat6) -> [[f64; 3]; 3] {
-    let cols: [[f64; 6]; 6] = (*q6).into();
-    let q = |i: usize, j: usize| cols.get(j).and_then(|c| c.get(i)).copied().unwrap_or(0.0);
+    let q = |i: usize, j: usize| q6.get((i, j)).copied().unwrap_or(0.0);
     let mut out = [[0.0; 3]; 3];
     for (a, ra) in out.iter_mut().zip(frame.axes) {
         for (v, rb) in a.iter_mut().zip(frame.axes) {
@@ -323,18 +375,6 @@ fn enu_block(frame: &LocalFrame, q6: &Mat6) -> [[f64; 3]; 3] {
         }
     }
     out
-}
-
-/// Design-matrix row: −unit line of sight and 1 on the system's clock.
-fn row(u: [f64; 3], sys: usize) -> Vec6 {
-    Vec6::new(
-        -u[0],
-        -u[1],
-        -u[2],
-        if sys == 0 { 1.0 } else { 0.0 },
-        if sys == 1 { 1.0 } else { 0.0 },
-        if sys == 2 { 1.0 } else { 0.0 },
-    )
 }
 
 /// Rotates a satellite position about the z axis by the Earth's rotation during the

@@ -10,7 +10,12 @@ const N: usize = 12;
 fn frame(k: u8) -> (Epoch<N>, Vec<u8>) {
     let mut e: Epoch<N> = Epoch::new(GnssTime::from_nanos(1_000_000_000 * i64::from(k)));
     for p in 1..=(k % N as u8) {
-        e.push(Observation::code(SatId::gps(p), Signal::GpsL1Ca, 2.0e7 + f64::from(p))).unwrap();
+        e.push(Observation::code(
+            SatId::gps(p),
+            Signal::GpsL1Ca,
+            2.0e7 + f64::from(p),
+        ))
+        .unwrap();
     }
     let mut buf = vec![0u8; buffer_for(N)];
     let n = encode_epoch(&e, &mut buf).unwrap();

@@ -68,9 +68,11 @@ impl<const B: usize> FrameDecoder<B> {
 
     /// Drops the first `n` buffered bytes.
     fn consume(&mut self, n: usize) {
-        let n = n.min(self.len);
-        self.buf.copy_within(n..self.len, 0);
-        self.len = self.len.saturating_sub(n);
+        // Both bounds clamped so the range is provably inside the array: no panic path.
+        let len = self.len.min(B);
+        let n = n.min(len);
+        self.buf.copy_within(n..len, 0);
+        self.len = len.saturating_sub(n);
     }
 
     /// Drops one byte of a bad frame start so the search resumes after it.

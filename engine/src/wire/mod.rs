@@ -19,7 +19,8 @@ mod payload;
 
 pub use decoder::{DecoderStats, FrameDecoder};
 pub use payload::{
-    encode_ephemeris, encode_epoch, encode_iono, signal_code, signal_from_code, FIELDS as EPHEMERIS_FIELDS,
+    encode_ephemeris, encode_epoch, encode_iono, signal_code, signal_from_code,
+    FIELDS as EPHEMERIS_FIELDS,
 };
 
 use crate::ephemeris::BroadcastEphemeris;

@@ -262,27 +262,32 @@ fn frame(
 pub fn encode_epoch<const N: usize>(epoch: &Epoch<N>, out: &mut [u8]) -> Result<usize, WireError> {
     let n = epoch.obs.len();
     let count = u8::try_from(n).map_err(|_| WireError::TooManyObservations(u8::MAX))?;
-    frame(out, 1, EPOCH_HEADER_BYTES.saturating_add(n.saturating_mul(OBS_BYTES)), |w| {
-        w.put(&epoch.time.as_nanos().to_le_bytes())?;
-        w.put(&[count])?;
-        for o in &epoch.obs {
-            let flags = u8::from(o.doppler_hz.is_some())
-                | u8::from(o.cn0_dbhz.is_some()) << 1
-                | u8::from(o.lock_s.is_some()) << 2;
-            w.put(&[
-                system_code(o.sat.system),
-                o.sat.prn,
-                signal_code(o.signal),
-                flags,
-            ])?;
-            w.put(&o.pseudorange_m.to_le_bytes())?;
-            // Doppler travels as f32: 0.5 mHz resolution at 5 kHz, ample for what it feeds.
-            w.put(&(o.doppler_hz.unwrap_or(0.0) as f32).to_le_bytes())?;
-            w.put(&o.cn0_dbhz.unwrap_or(0.0).to_le_bytes())?;
-            w.put(&o.lock_s.unwrap_or(0.0).to_le_bytes())?;
-        }
-        Ok(())
-    })
+    frame(
+        out,
+        1,
+        EPOCH_HEADER_BYTES.saturating_add(n.saturating_mul(OBS_BYTES)),
+        |w| {
+            w.put(&epoch.time.as_nanos().to_le_bytes())?;
+            w.put(&[count])?;
+            for o in &epoch.obs {
+                let flags = u8::from(o.doppler_hz.is_some())
+                    | u8::from(o.cn0_dbhz.is_some()) << 1
+                    | u8::from(o.lock_s.is_some()) << 2;
+                w.put(&[
+                    system_code(o.sat.system),
+                    o.sat.prn,
+                    signal_code(o.signal),
+                    flags,
+                ])?;
+                w.put(&o.pseudorange_m.to_le_bytes())?;
+                // Doppler travels as f32: 0.5 mHz resolution at 5 kHz, ample for what it feeds.
+                w.put(&(o.doppler_hz.unwrap_or(0.0) as f32).to_le_bytes())?;
+                w.put(&o.cn0_dbhz.unwrap_or(0.0).to_le_bytes())?;
+                w.put(&o.lock_s.unwrap_or(0.0).to_le_bytes())?;
+            }
+            Ok(())
+        },
+    )
 }
 
 /// Encodes an ephemeris frame into `out`, returning its length.

@@ -4,6 +4,7 @@
 //! Not for safety-of-life navigation. Positions are estimates; follow local regulations
 //! and licensed practice where a position carries legal or safety weight.
 
+mod frames;
 mod plots;
 mod report;
 
@@ -82,12 +83,109 @@ enum Command {
         #[arg(long)]
         out: PathBuf,
     },
+    /// Write a wire-frame stream for the firmware example, or run one on the host.
+    Frames {
+        #[command(subcommand)]
+        what: FramesCmd,
+    },
     /// Run every row of the dataset manifest and print measured against thresholds.
     Manifest {
         /// Also write the table into docs/accuracy.md.
         #[arg(long)]
         write_docs: bool,
     },
+}
+
+#[derive(Subcommand)]
+enum FramesCmd {
+    /// Convert recorded RINEX into frames (ephemerides as a receiver would decode them).
+    Rinex {
+        #[arg(long)]
+        obs: PathBuf,
+        #[arg(long, required = true, num_args = 1..)]
+        nav: Vec<PathBuf>,
+        /// Systems, any of g, e, c.
+        #[arg(long, default_value = "ge")]
+        systems: String,
+        /// Observations per epoch (the firmware's N).
+        #[arg(long, default_value_t = 12)]
+        n: usize,
+        /// Epochs to convert.
+        #[arg(long, default_value_t = 20)]
+        epochs: usize,
+        #[arg(long)]
+        out: PathBuf,
+    },
+    /// Synthetic epochs with exactly the given satellite counts.
+    Synthetic {
+        /// Satellite counts, e.g. 8,12,24.
+        #[arg(long, value_delimiter = ',', default_value = "8,12")]
+        sats: Vec<usize>,
+        /// Epochs per count.
+        #[arg(long, default_value_t = 3)]
+        each: usize,
+        #[arg(long)]
+        out: PathBuf,
+    },
+    /// Run a frame file through the engine on the host and print the firmware's lines.
+    Run {
+        /// Observations per epoch (12 or 24, as the firmware build).
+        #[arg(long, default_value_t = 12)]
+        n: usize,
+        /// Frame files, run one after the other through one engine.
+        #[arg(required = true)]
+        files: Vec<PathBuf>,
+    },
+}
+
+fn frames_cmd(what: FramesCmd) -> Result<(), String> {
+    match what {
+        FramesCmd::Rinex {
+            obs,
+            nav,
+            systems,
+            n,
+            epochs,
+            out,
+        } => {
+            let sys = [
+                systems.contains('g'),
+                systems.contains('e'),
+                systems.contains('c'),
+            ];
+            let bytes = frames::from_rinex(&obs, &nav, sys, n, epochs)?;
+            std::fs::write(&out, &bytes).map_err(|e| format!("{}: {e}", out.display()))?;
+            println!(
+                "{} bytes of frames written to {}",
+                bytes.len(),
+                out.display()
+            );
+        }
+        FramesCmd::Synthetic { sats, each, out } => {
+            let bytes = frames::synthetic(&sats, each)?;
+            std::fs::write(&out, &bytes).map_err(|e| format!("{}: {e}", out.display()))?;
+            println!(
+                "{} bytes of frames written to {}",
+                bytes.len(),
+                out.display()
+            );
+        }
+        FramesCmd::Run { n, files } => {
+            let mut stream = Vec::new();
+            for f in &files {
+                stream.extend(std::fs::read(f).map_err(|e| format!("{}: {e}", f.display()))?);
+            }
+            let lines = match n {
+                12 => frames::run_host::<12>(&stream),
+                24 => frames::run_host::<24>(&stream),
+                _ => return Err("n must be 12 or 24 (the firmware builds)".into()),
+            };
+            for l in lines {
+                println!("{l}");
+            }
+        }
+    }
+    Ok(())
 }
 
 fn parse_xyz(s: &str) -> Result<[f64; 3], String> {
@@ -111,6 +209,7 @@ fn main() -> ExitCode {
             out,
         } => replay_cmd(obs, nav, truth, truth_csv, &systems, out.as_deref()),
         Command::Report { row, out } => report_cmd(&row, &out),
+        Command::Frames { what } => frames_cmd(what),
         Command::Manifest { write_docs } => manifest_cmd(write_docs),
     };
     match result {

@@ -14,6 +14,8 @@
 //!    committed files; the demo report's GPX validated against the GPX 1.1 schema and its
 //!    NMEA parsed by pynmea2 (skipped, loudly, where Python is absent).
 
+mod firmware;
+
 use std::path::{Path, PathBuf};
 use std::process::{Command, ExitCode};
 
@@ -69,6 +71,14 @@ fn main() -> ExitCode {
     let args: Vec<String> = std::env::args().skip(1).collect();
     match args.first().map(String::as_str) {
         Some("test") => test(),
+        Some("firmware") => {
+            let mut r = Runner {
+                passed: vec![],
+                failed: vec![],
+            };
+            firmware_steps(&mut r, args.iter().any(|a| a == "--write-docs"));
+            finish(&r)
+        }
         Some("vectors") => {
             let mut r = Runner {
                 passed: vec![],
@@ -211,12 +221,7 @@ fn test() -> ExitCode {
         println!("{}", tree.unwrap_or_default());
     }
     r.step("engine dependency tree has no alloc/std feature", clean);
-    r.run(
-        "firmware example builds",
-        &root.join("firmware-example"),
-        "cargo",
-        &["build", "--release"],
-    );
+    firmware_steps(&mut r, false);
     r.run(
         "workspace tests",
         &root,
@@ -347,4 +352,83 @@ fn vectors(r: &mut Runner, write: bool) {
             r.step(&format!("{file} matches a fresh regeneration"), same);
         }
     }
+}
+
+/// Builds and runs the firmware example under QEMU for N = 12 and N = 24, compares its
+/// fixes with the host, checks the budgets against docs/firmware.md, and proves the release
+/// build free of panic paths.
+fn firmware_steps(r: &mut Runner, write_docs: bool) {
+    let root = root();
+    println!("\nxtask: == firmware example under QEMU");
+    if !r.run(
+        "host tools (release)",
+        &root,
+        "cargo",
+        &["build", "--quiet", "--release", "-p", "trackfix-tools"],
+    ) {
+        return;
+    }
+    if let Err(e) = firmware::ensure_tools() {
+        println!("xtask: {e}");
+        r.step("qemu-system-arm and defmt-print present", false);
+        return;
+    }
+    let mut runs = Vec::new();
+    for n in [12usize, 24] {
+        let result = firmware::make_frames(&root, n).and_then(|frames| {
+            let m = firmware::run_firmware(&root, n, &frames)?;
+            let host = firmware::host_lines(&root, n, &frames)?;
+            let verdict = firmware::compare(&m.lines, &host)?;
+            Ok((m, verdict))
+        });
+        let name = format!("firmware N = {n} runs under QEMU and matches the host");
+        match result {
+            Ok((m, verdict)) => {
+                println!("xtask: N = {n}: {verdict}");
+                r.step(&name, true);
+                runs.push(m);
+            }
+            Err(e) => {
+                println!("xtask: {e}");
+                r.step(&name, false);
+            }
+        }
+    }
+    if runs.len() == 2 {
+        let (table, ok) = firmware::table(&runs);
+        println!("\n{table}");
+        r.step(
+            "firmware budgets (12 satellites: flash, RAM with stack, instructions)",
+            ok,
+        );
+        let path = root.join("docs/firmware.md");
+        let page = std::fs::read_to_string(&path).unwrap_or_default();
+        let data = std::env::var_os("TRACKFIX_DATA")
+            .map_or_else(|| root.join("../shared/data"), PathBuf::from);
+        match firmware::splice(&page, &table) {
+            Some(new) if write_docs => {
+                let ok = std::fs::write(&path, new).is_ok();
+                r.step("wrote docs/firmware.md", ok);
+            }
+            Some(_) if !data.is_dir() => {
+                println!(
+                    "xtask: SKIPPED docs/firmware.md comparison: measured without recorded data"
+                );
+            }
+            Some(new) => {
+                let same = new == page;
+                if !same {
+                    println!("xtask: docs/firmware.md is out of date: run `cargo xtask firmware --write-docs`");
+                }
+                r.step("docs/firmware.md shows the measured figures", same);
+            }
+            None => r.step("docs/firmware.md has the budget markers", false),
+        }
+    }
+    r.run(
+        "release firmware links with no panic path",
+        &root.join("firmware-example"),
+        "cargo",
+        &["build", "--release", "--features", "panic-check"],
+    );
 }
