@@ -426,6 +426,12 @@ fn firmware_steps(r: &mut Runner, write_docs: bool) {
         }
     }
     r.run(
+        "clippy firmware example",
+        &root.join("firmware-example"),
+        "cargo",
+        &["clippy", "--release", "--", "-D", "warnings"],
+    );
+    r.run(
         "release firmware links with no panic path",
         &root.join("firmware-example"),
         "cargo",
