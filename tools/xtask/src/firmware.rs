@@ -355,3 +355,35 @@ pub fn splice(page: &str, table: &str) -> Option<String> {
     let b = page.find(END)?;
     (a < b).then(|| format!("{}{BEGIN}\n{table}{}", &page[..a], &page[b..]))
 }
+
+/// `12345` as `12,345`.
+pub fn thousands(v: u64) -> String {
+    let d = v.to_string();
+    let mut out = String::new();
+    for (i, c) in d.chars().enumerate() {
+        if i > 0 && (d.len() - i) % 3 == 0 {
+            out.push(',');
+        }
+        out.push(c);
+    }
+    out
+}
+
+/// The figures the README quotes for the N = 12 build: flash, RAM total and the median
+/// 12-satellite epoch in millions of instructions.
+pub fn readme_figures(runs: &[Measured]) -> Vec<String> {
+    let Some(m) = runs.iter().find(|m| m.n == 12) else {
+        return Vec::new();
+    };
+    let mut full: Vec<u64> = m
+        .costs
+        .get(&12)
+        .map(|v| v.iter().map(|c| c.1).collect())
+        .unwrap_or_default();
+    let med = median(&mut full);
+    vec![
+        format!("{} B", thousands(m.flash_code)),
+        format!("{} B", thousands(m.static_ram + m.stack)),
+        format!("{:.2} M", med as f64 / 1e6),
+    ]
+}

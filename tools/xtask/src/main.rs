@@ -424,6 +424,23 @@ fn firmware_steps(r: &mut Runner, write_docs: bool) {
             }
             None => r.step("docs/firmware.md has the budget markers", false),
         }
+        if data.is_dir() {
+            let readme = std::fs::read_to_string(root.join("README.md")).unwrap_or_default();
+            let missing: Vec<String> = firmware::readme_figures(&runs)
+                .into_iter()
+                .filter(|f| !readme.contains(f.as_str()))
+                .collect();
+            if !missing.is_empty() {
+                println!(
+                    "xtask: README.md does not quote the measured {}",
+                    missing.join(", ")
+                );
+            }
+            r.step(
+                "README.md quotes the measured target figures",
+                missing.is_empty(),
+            );
+        }
     }
     r.run(
         "clippy firmware example",
