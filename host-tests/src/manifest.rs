@@ -3,6 +3,7 @@
 
 use crate::data::{data_dir, verify};
 use crate::metrics::Summary;
+use crate::record::EpochRecord;
 use crate::replay::{replay, Dataset, Truth};
 use crate::scenario::{self, ScenarioSpec};
 use rayon::prelude::*;
@@ -123,57 +124,71 @@ impl Manifest {
     }
 }
 
-fn config_for(systems: &[crate::scenario::spec::SystemName]) -> Config {
+/// The engine configuration for a row: defaults with only the listed systems on.
+pub fn config_for(systems: &[crate::scenario::spec::SystemName]) -> Config {
     let mut c = Config::default();
     c.systems = [false; 3];
     for s in systems {
         let sys: trackfix_engine::System = (*s).into();
-        c.systems[sys.index()] = true;
+        if let Some(on) = c.systems.get_mut(sys.index()) {
+            *on = true;
+        }
     }
     c
 }
 
+impl ScenarioRow {
+    /// Runs the scenario through the engine.
+    ///
+    /// # Errors
+    /// A message naming the scenario field that cannot be used.
+    pub fn records(&self) -> Result<Vec<EpochRecord>, String> {
+        let cfg = config_for(self.engine_systems.as_deref().unwrap_or(&self.spec.systems));
+        scenario::run(&self.spec, cfg).map_err(|e| format!("scenario {}: {e}", self.name))
+    }
+}
+
+impl DatasetRow {
+    /// Checks the files against SHA256SUMS in `dir` and replays them.
+    ///
+    /// # Errors
+    /// A digest mismatch or the first reading error.
+    pub fn records(&self, dir: &Path) -> Result<Vec<EpochRecord>, String> {
+        std::iter::once(&self.obs)
+            .chain(self.nav.iter())
+            .try_for_each(|f| verify(dir, f))?;
+        let ds = Dataset {
+            obs: dir.join(&self.obs),
+            nav: self.nav.iter().map(|n| dir.join(n)).collect(),
+            truth: self.marker.map(Truth::Marker),
+        };
+        replay(&ds, config_for(&self.systems)).map_err(|e| e.to_string())
+    }
+}
+
 fn run_scenario(row: &ScenarioRow) -> RowResult {
-    let cfg = config_for(row.engine_systems.as_deref().unwrap_or(&row.spec.systems));
-    let outcome = match scenario::run(&row.spec, cfg) {
-        Ok(records) => RowOutcome::Ran(Box::new(Summary::of(&records))),
-        Err(e) => RowOutcome::Error(format!("scenario {}: {e}", row.name)),
-    };
     RowResult {
         name: row.name.clone(),
         kind: "synthetic",
-        outcome,
+        outcome: match row.records() {
+            Ok(r) => RowOutcome::Ran(Box::new(Summary::of(&r))),
+            Err(e) => RowOutcome::Error(e),
+        },
         threshold: row.threshold,
     }
 }
 
 fn run_dataset(row: &DatasetRow) -> RowResult {
-    let outcome = match data_dir() {
-        None => RowOutcome::Skipped,
-        Some(dir) => {
-            let checked = std::iter::once(&row.obs)
-                .chain(row.nav.iter())
-                .try_for_each(|f| verify(&dir, f));
-            match checked {
-                Err(e) => RowOutcome::Error(e),
-                Ok(()) => {
-                    let ds = Dataset {
-                        obs: dir.join(&row.obs),
-                        nav: row.nav.iter().map(|n| dir.join(n)).collect(),
-                        truth: row.marker.map(Truth::Marker),
-                    };
-                    match replay(&ds, config_for(&row.systems)) {
-                        Ok(r) => RowOutcome::Ran(Box::new(Summary::of(&r))),
-                        Err(e) => RowOutcome::Error(e.to_string()),
-                    }
-                }
-            }
-        }
-    };
     RowResult {
         name: row.name.clone(),
         kind: "recorded",
-        outcome,
+        outcome: match data_dir() {
+            None => RowOutcome::Skipped,
+            Some(dir) => match row.records(&dir) {
+                Ok(r) => RowOutcome::Ran(Box::new(Summary::of(&r))),
+                Err(e) => RowOutcome::Error(e),
+            },
+        },
         threshold: row.threshold,
     }
 }

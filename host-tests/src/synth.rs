@@ -43,14 +43,7 @@ pub struct Constellation {
 pub fn constellation(seed: u64, toe: GnssTime, systems: &[System]) -> Constellation {
     let mut rng = rand::rngs::StdRng::seed_from_u64(seed);
     let mut ephemerides = Vec::new();
-    // Each system's ephemeris carries toe in its own time scale.
-    let week_toe = |system: System| match system {
-        System::Beidou => {
-            let (w, s) = toe.bdt_week_tow();
-            (u32::try_from(w).unwrap_or(0), s)
-        }
-        _ => (u32::try_from(toe.week()).unwrap_or(0), toe.tow_s()),
-    };
+    let week_toe = |system: System| week_tow_in(system, toe);
     let mut push = |sat: SatId,
                     a_m: f64,
                     inc: f64,
@@ -162,6 +155,18 @@ pub fn constellation(seed: u64, toe: GnssTime, systems: &[System]) -> Constellat
     Constellation { ephemerides, toe }
 }
 
+/// Week and seconds of week of `t` in `system`'s own time scale (BDT for BeiDou; GPS-aligned
+/// weeks for Galileo, as RINEX writes them).
+fn week_tow_in(system: System, t: GnssTime) -> (u32, f64) {
+    match system {
+        System::Beidou => {
+            let (w, s) = t.bdt_week_tow();
+            (u32::try_from(w).unwrap_or(0), s)
+        }
+        _ => (u32::try_from(t.week()).unwrap_or(0), t.tow_s()),
+    }
+}
+
 /// The same satellites' broadcast set re-referenced to a later (or earlier) `toe`: a new
 /// upload describing the same orbit, as the control segment sends every two hours.
 pub fn rereference(eph: &BroadcastEphemeris, toe: GnssTime) -> BroadcastEphemeris {
@@ -170,13 +175,7 @@ pub fn rereference(eph: &BroadcastEphemeris, toe: GnssTime) -> BroadcastEphemeri
     let c = eph.sat.system.constants();
     let a = eph.sqrt_a * eph.sqrt_a;
     let n = (c.mu / (a * a * a)).sqrt() + eph.delta_n;
-    let (week, toe_s) = match eph.sat.system {
-        System::Beidou => {
-            let (w, s) = toe.bdt_week_tow();
-            (u32::try_from(w).unwrap_or(0), s)
-        }
-        _ => (u32::try_from(toe.week()).unwrap_or(0), toe.tow_s()),
-    };
+    let (week, toe_s) = week_tow_in(eph.sat.system, toe);
     let weeks = f64::from(week) - f64::from(eph.week);
     // Keep Ωk(t) unchanged. MEO/IGSO: Ωk = Ω0 + Ω̇·tk − Ω̇e·(t − start of toe's week).
     // GEO: the ICD's frame is the Earth-fixed frame at toe, tilted; a stationary satellite

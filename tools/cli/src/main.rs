@@ -328,29 +328,11 @@ fn report_cmd(row: &str, out: &Path) -> Result<(), String> {
     println!("{CAUTION}");
     let m = Manifest::read(&root().join(MANIFEST))?;
     let records: Vec<EpochRecord> = if let Some(r) = m.scenario.iter().find(|r| r.name == row) {
-        let mut cfg = Config::default();
-        let systems = r.engine_systems.as_deref().unwrap_or(&r.spec.systems);
-        cfg.systems = [false; 3];
-        for s in systems {
-            let sys: trackfix_engine::System = (*s).into();
-            cfg.systems[sys.index()] = true;
-        }
-        scenario::run(&r.spec, cfg)?
+        r.records()?
     } else if let Some(r) = m.dataset.iter().find(|r| r.name == row) {
         let dir = trackfix_harness::data::data_dir()
             .ok_or("recorded data folder not found (set TRACKFIX_DATA)")?;
-        let mut cfg = Config::default();
-        cfg.systems = [false; 3];
-        for s in &r.systems {
-            let sys: trackfix_engine::System = (*s).into();
-            cfg.systems[sys.index()] = true;
-        }
-        let ds = Dataset {
-            obs: dir.join(&r.obs),
-            nav: r.nav.iter().map(|n| dir.join(n)).collect(),
-            truth: r.marker.map(Truth::Marker),
-        };
-        replay_with_progress(&ds, cfg, |_| {}).map_err(|e| e.to_string())?
+        r.records(&dir)?
     } else {
         let names: Vec<&str> = m
             .scenario
