@@ -96,6 +96,28 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         iono.is_finite()
     }
 
+    /// Starts the next solution from a position the tracker remembers (kept in retained RAM
+    /// or flash across a power cycle) instead of the Earth's centre: fewer iterations on the
+    /// first epoch, and its height can hold a 2-D fix for `altitude_hold_max_age_s` after
+    /// `time`. A non-finite position, or one whose height is outside the configured span, is
+    /// refused (`false`).
+    pub fn seed_position(&mut self, ecef_m: [f64; 3], time: GnssTime) -> bool {
+        if !ecef_m.iter().all(|v| v.is_finite()) {
+            return false;
+        }
+        let height_m = crate::frames::Geodetic::from_ecef(ecef_m).height_m;
+        let (lo, hi) = self.config.height_span_m;
+        if !(lo..=hi).contains(&height_m) {
+            return false;
+        }
+        self.anchor = Some(Anchor {
+            time,
+            ecef_m,
+            height_m,
+        });
+        true
+    }
+
     /// Forgets the time of the last epoch and the last fix, e.g. before replaying again.
     pub fn reset_time(&mut self) {
         self.last_time = None;
