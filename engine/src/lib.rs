@@ -29,6 +29,7 @@ pub mod engine;
 pub mod ephemeris;
 pub mod frames;
 pub mod iono;
+pub mod linalg;
 pub mod observation;
 pub mod sat;
 pub mod solution;

@@ -19,14 +19,11 @@
 use crate::config::Config;
 use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
 use crate::iono::IonoCoefficients;
+use crate::linalg::{add, Cholesky6, Mat6};
 use crate::sat::{System, SPEED_OF_LIGHT};
 use crate::solution::{Dop, Fix, FixKind, IonoCorrection, NoFixReason};
 use crate::tropo::ZenithDelay;
 use libm::{sin, sqrt};
-use nalgebra::{Cholesky, SMatrix, SVector};
-
-type Mat6 = SMatrix<f64, 6, 6>;
-type Vec6 = SVector<f64, 6>;
 
 /// Lowest sin(elevation) used in the σ model, so a satellite at the horizon (reachable with a
 /// mask of 0°) gets a large but finite σ.
@@ -121,9 +118,9 @@ pub(crate) fn solve(
         }
         let zenith = (refresh && cfg.troposphere)
             .then(|| ZenithDelay::standard_atmosphere(geo.lat_rad, geo.height_m));
-        let mut normal = Mat6::zeros();
-        let mut geometry = Mat6::zeros();
-        let mut rhs = Vec6::zeros();
+        let mut normal: Mat6 = [[0.0; 6]; 6];
+        let mut geometry: Mat6 = [[0.0; 6]; 6];
+        let mut rhs = [0.0f64; 6];
         let mut present = [false; 3];
         let mut used = 0u8;
         for (c, o) in cands.iter().zip(out.iter_mut()) {
@@ -182,12 +179,8 @@ pub(crate) fn solve(
             let val = [-u[0], -u[1], -u[2], 1.0];
             for (&i, &a) in idx.iter().zip(val.iter()) {
                 for (&j, &b) in idx.iter().zip(val.iter()) {
-                    if let Some(x) = normal.get_mut((i, j)) {
-                        *x += a * b * w;
-                    }
-                    if let Some(x) = geometry.get_mut((i, j)) {
-                        *x += a * b;
-                    }
+                    add(&mut normal, i, j, a * b * w);
+                    add(&mut geometry, i, j, a * b);
                 }
                 if let Some(x) = rhs.get_mut(i) {
                     *x += a * v * w;
@@ -215,11 +208,17 @@ pub(crate) fn solve(
                     // The held height needs the exact height at this iteration's position.
                     let here = Geodetic::from_ecef(pos);
                     let up = LocalFrame::new(pos, &here).axes[2];
-                    let h = Vec6::new(up[0], up[1], up[2], 0.0, 0.0, 0.0);
                     let w = 1.0 / (cfg.altitude_hold_sigma_m * cfg.altitude_hold_sigma_m);
-                    normal += h * h.transpose() * w;
-                    geometry += h * h.transpose();
-                    rhs += h * ((h_hold - here.height_m) * w);
+                    let v = h_hold - here.height_m;
+                    for (i, a) in up.iter().enumerate() {
+                        for (j, b) in up.iter().enumerate() {
+                            add(&mut normal, i, j, a * b * w);
+                            add(&mut geometry, i, j, a * b);
+                        }
+                        if let Some(x) = rhs.get_mut(i) {
+                            *x += a * v * w;
+                        }
+                    }
                     kind = FixKind::TwoD;
                 }
                 _ => {
@@ -230,19 +229,16 @@ pub(crate) fn solve(
                 }
             }
         }
-        let pins = Vec6::new(
-            0.0,
-            0.0,
-            0.0,
-            if present[0] { 0.0 } else { 1.0 },
-            if present[1] { 0.0 } else { 1.0 },
-            if present[2] { 0.0 } else { 1.0 },
-        );
-        normal += Mat6::from_diagonal(&pins);
-        geometry += Mat6::from_diagonal(&pins);
-        let chol = Cholesky::new(normal).ok_or(NoFixReason::SingularGeometry)?;
-        let dx = chol.solve(&rhs);
-        let d: [f64; 6] = dx.into();
+        // Pin the clocks of absent systems (a unit diagonal keeps the matrix regular).
+        for (k, p) in present.iter().enumerate() {
+            if !p {
+                let d = (k.saturating_add(3), k.saturating_add(3));
+                add(&mut normal, d.0, d.1, 1.0);
+                add(&mut geometry, d.0, d.1, 1.0);
+            }
+        }
+        let chol = Cholesky6::new(&normal).ok_or(NoFixReason::SingularGeometry)?;
+        let d = chol.solve(&rhs);
         if d.iter().any(|v| !v.is_finite()) {
             return Err(NoFixReason::SingularGeometry);
         }
@@ -317,13 +313,14 @@ fn finish(
         }
     }
     let cov = enu_block(&frame, &f.normal_inv);
-    let ginv = Cholesky::new(f.geometry)
+    let ginv = Cholesky6::new(&f.geometry)
         .ok_or(NoFixReason::SingularGeometry)?
         .inverse();
     let q = enu_block(&frame, &ginv);
     let first = f.present.iter().position(|p| *p).unwrap_or(0);
     let tdop2 = ginv
-        .get((first.saturating_add(3), first.saturating_add(3)))
+        .get(first.saturating_add(3))
+        .and_then(|r| r.get(first.saturating_add(3)))
         .copied()
         .unwrap_or(0.0);
     let hdop2 = q[0][0] + q[1][1];
@@ -361,7 +358,7 @@ fn finish(
 
 /// The position block of a 6×6 ECEF covariance rotated to east/north/up: R·Q·Rᵀ.
 fn enu_block(frame: &LocalFrame, q6: &Mat6) -> [[f64; 3]; 3] {
-    let q = |i: usize, j: usize| q6.get((i, j)).copied().unwrap_or(0.0);
+    let q = |i: usize, j: usize| q6.get(i).and_then(|r| r.get(j)).copied().unwrap_or(0.0);
     let mut out = [[0.0; 3]; 3];
     for (a, ra) in out.iter_mut().zip(frame.axes) {
         for (v, rb) in a.iter_mut().zip(frame.axes) {
