@@ -185,7 +185,8 @@ pub fn replay_with_progress(
     mut progress: impl FnMut(f64),
 ) -> Result<Vec<EpochRecord>, RinexError> {
     let (nav, iono) = load_nav(&ds.nav)?;
-    let reader = ObsReader::open(&ds.obs)?;
+    let size = std::fs::metadata(&ds.obs).map_or(1, |m| m.len().max(1));
+    let mut reader = ObsReader::open(&ds.obs)?;
     let marker = match &ds.truth {
         Some(Truth::Marker(m)) => Some(antenna_position(*m, reader.header.antenna_delta_hen)),
         _ => None,
@@ -195,10 +196,9 @@ pub fn replay_with_progress(
         engine.set_ionosphere(k);
     }
     let header = reader.header.clone();
-    let mut first_t = None;
     let mut next_nav = 0;
     let mut out = Vec::new();
-    for e in reader {
+    while let Some(e) = reader.next() {
         let e = e?;
         while let Some(r) = nav.get(next_nav).filter(|r| r.transmitted <= e.time) {
             // Invalid records are reported by the store and simply not used.
@@ -214,10 +214,8 @@ pub fn replay_with_progress(
             _ => marker,
         };
         out.push(EpochRecord::from_solution(&sol, truth, out.is_empty()));
-        let t0 = *first_t.get_or_insert(e.time);
-        if out.len() % 256 == 0 {
-            // Observation files cover a day at most: report progress through it.
-            progress((e.time.seconds_since(t0) / 86_400.0).min(1.0));
+        if out.len() % 64 == 0 {
+            progress(reader.bytes_read() as f64 / size as f64);
         }
     }
     progress(1.0);

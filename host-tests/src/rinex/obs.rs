@@ -66,6 +66,7 @@ impl ObsEpoch {
 pub struct ObsReader<R: BufRead> {
     lines: Lines<R>,
     line_no: usize,
+    bytes: u64,
     path: PathBuf,
     /// The header.
     pub header: ObsHeader,
@@ -114,6 +115,7 @@ impl<R: BufRead> ObsReader<R> {
         let mut me = ObsReader {
             lines: reader.lines(),
             line_no: 0,
+            bytes: 0,
             path: path.to_path_buf(),
             header: ObsHeader::default(),
             done: false,
@@ -194,6 +196,11 @@ impl<R: BufRead> ObsReader<R> {
         Ok(me)
     }
 
+    /// Bytes read so far (for progress reports).
+    pub fn bytes_read(&self) -> u64 {
+        self.bytes
+    }
+
     fn err(&self, what: impl Into<String>) -> RinexError {
         RinexError::new(&self.path, self.line_no, what)
     }
@@ -203,6 +210,7 @@ impl<R: BufRead> ObsReader<R> {
             None => Ok(None),
             Some(Ok(l)) => {
                 self.line_no += 1;
+                self.bytes += l.len() as u64 + 1;
                 Ok(Some(l))
             }
             Some(Err(e)) => Err(self.err(e.to_string())),
