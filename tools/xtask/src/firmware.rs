@@ -392,3 +392,28 @@ pub fn readme_figures(runs: &[Measured]) -> Vec<String> {
         format!("{:.2} M", med as f64 / 1e6),
     ]
 }
+
+/// Whether two generated tables agree: the same text, except that whole numbers may differ
+/// by up to 16 (bytes). Static RAM moves by a few bytes with the checkout path: the crate
+/// hashes in symbol names change the link order and with it the padding between small
+/// statics. Flash and instruction counts do not move (instruction counts step by 40).
+pub fn tables_agree(a: &str, b: &str) -> bool {
+    let (ta, tb): (Vec<&str>, Vec<&str>) = (
+        a.split_whitespace().collect(),
+        b.split_whitespace().collect(),
+    );
+    ta.len() == tb.len() && ta.iter().zip(&tb).all(|(x, y)| {
+        x == y
+            || matches!((x.parse::<i64>(), y.parse::<i64>()), (Ok(p), Ok(q)) if (p - q).abs() <= 16)
+    })
+}
+
+/// Whether `text` quotes `figure` ("15,248 B"-style), allowing the same ±16 B for RAM.
+pub fn quotes(text: &str, figure: &str, tolerance: i64) -> bool {
+    let want: Option<i64> = figure.trim_end_matches(" B").replace(',', "").parse().ok();
+    match want {
+        Some(w) if figure.ends_with(" B") => (-tolerance..=tolerance)
+            .any(|d| text.contains(&format!("{} B", thousands((w + d).max(0) as u64)))),
+        _ => text.contains(figure),
+    }
+}

@@ -416,7 +416,7 @@ fn firmware_steps(r: &mut Runner, write_docs: bool) {
                 );
             }
             Some(new) => {
-                let same = new == page;
+                let same = firmware::tables_agree(&new, &page);
                 if !same {
                     println!("xtask: docs/firmware.md is out of date: run `cargo xtask firmware --write-docs`");
                 }
@@ -428,7 +428,7 @@ fn firmware_steps(r: &mut Runner, write_docs: bool) {
             let readme = std::fs::read_to_string(root.join("README.md")).unwrap_or_default();
             let missing: Vec<String> = firmware::readme_figures(&runs)
                 .into_iter()
-                .filter(|f| !readme.contains(f.as_str()))
+                .filter(|f| !firmware::quotes(&readme, f, 16))
                 .collect();
             if !missing.is_empty() {
                 println!(
