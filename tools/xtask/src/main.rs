@@ -443,6 +443,12 @@ fn firmware_steps(r: &mut Runner, write_docs: bool) {
         }
     }
     r.run(
+        "rustfmt firmware example",
+        &root.join("firmware-example"),
+        "cargo",
+        &["fmt", "--", "--check"],
+    );
+    r.run(
         "clippy firmware example",
         &root.join("firmware-example"),
         "cargo",
