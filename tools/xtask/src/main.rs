@@ -185,6 +185,13 @@ fn test() -> ExitCode {
             "warnings",
         ],
     );
+    let doc_ok = Command::new("cargo")
+        .args(["doc", "--quiet", "-p", "trackfix-engine", "--no-deps"])
+        .env("RUSTDOCFLAGS", "-D warnings")
+        .current_dir(&root)
+        .status()
+        .is_ok_and(|s| s.success());
+    r.step("engine API documentation builds without warnings", doc_ok);
     r.run(
         "engine builds for the target",
         &root,
