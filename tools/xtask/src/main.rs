@@ -4,13 +4,17 @@
 //! Steps (each printed, each must pass):
 //! 1. the thumbv7em-none-eabihf target (rustup);
 //! 2. rustfmt check;
-//! 3. clippy `-D warnings` on the engine for the host (with tests) and for the target;
-//! 4. the engine built for the target without default features, and a check that no
+//! 3. clippy `-D warnings` on the engine (host with tests, and target), and on the workspace;
+//! 4. the engine's API documentation without warnings;
+//! 5. the engine built for the target without default features, and a check that no
 //!    dependency enables an `alloc` or `std` feature;
-//! 5. the firmware example built for the target;
-//! 6. every test of the workspace (release mode: the real-data replays are faster);
-//! 7. the benchmarks compile;
-//! 8. with pinned Python packages: the reference vectors regenerated and compared with the
+//! 6. the firmware example (N = 12 and N = 24) built, run under QEMU (installed with apt when
+//!    missing and run as root; defmt-print with cargo), its fixes compared with the host's,
+//!    its flash/RAM/instruction budgets checked and docs/firmware.md and the README compared
+//!    with the measurements; rustfmt and clippy on it; the panic-free link check;
+//! 7. every test of the workspace (release mode: the real-data replays are faster);
+//! 8. the benchmarks compile;
+//! 9. with pinned Python packages: the reference vectors regenerated and compared with the
 //!    committed files; the demo report's GPX validated against the GPX 1.1 schema and its
 //!    NMEA parsed by pynmea2 (skipped, loudly, where Python is absent).
 
