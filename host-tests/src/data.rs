@@ -15,13 +15,51 @@ pub fn data_dir() -> Option<PathBuf> {
     dir.is_dir().then_some(dir)
 }
 
-/// The data folder, or a loud skip message on stderr and `None` (for tests).
+/// The variable that makes a missing data folder a failure instead of a skip.
+/// `cargo xtask test` sets it (CI always has the data); any value but empty or `0` counts.
+pub const REQUIRE_VAR: &str = "TRACKFIX_REQUIRE_DATA";
+
+/// The variable naming a file to which every skip appends one line, so that the test
+/// command can count the skips of all test binaries at the end.
+pub const SKIP_LOG_VAR: &str = "TRACKFIX_SKIP_LOG";
+
+/// True when a missing data folder must fail the test (see [`REQUIRE_VAR`]).
+pub fn required() -> bool {
+    std::env::var(REQUIRE_VAR).is_ok_and(|v| !v.is_empty() && v != "0")
+}
+
+/// Reports a test or row skipped for want of the data folder: written straight to the
+/// process's standard error (the test harness captures only the `print!` macros, so this
+/// reaches the terminal) and appended to the skip log when one is set.
+pub fn report_skip(what: &str) {
+    use std::io::Write;
+    let line = format!(
+        "SKIPPED {what}: recorded data folder not found (set TRACKFIX_DATA or place shared/data beside the checkout)\n"
+    );
+    let _ = std::io::stderr().write_all(line.as_bytes());
+    if let Some(log) = std::env::var_os(SKIP_LOG_VAR) {
+        if let Ok(mut f) = std::fs::OpenOptions::new()
+            .create(true)
+            .append(true)
+            .open(log)
+        {
+            let _ = f.write_all(line.as_bytes());
+        }
+    }
+}
+
+/// The data folder for a test; `None` after a visible skip report when it is absent.
+///
+/// # Panics
+/// When the folder is absent and [`REQUIRE_VAR`] is set: in CI a missing data folder fails.
 pub fn data_dir_or_skip(test: &str) -> Option<PathBuf> {
     let d = data_dir();
     if d.is_none() {
-        eprintln!(
-            "SKIPPED {test}: recorded data folder not found (set TRACKFIX_DATA or place shared/data beside the checkout)"
+        assert!(
+            !required(),
+            "{test}: recorded data folder not found and {REQUIRE_VAR} is set (set TRACKFIX_DATA or place shared/data beside the checkout)"
         );
+        report_skip(test);
     }
     d
 }

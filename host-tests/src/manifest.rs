@@ -1,7 +1,7 @@
 //! The dataset manifest: every synthetic scenario and recorded dataset the harness gates,
 //! with its thresholds, in one TOML file (`host-tests/manifest.toml`). Rows run in parallel.
 
-use crate::data::{data_dir, verify};
+use crate::data::{data_dir, report_skip, required, verify, REQUIRE_VAR};
 use crate::metrics::Summary;
 use crate::record::EpochRecord;
 use crate::replay::{replay, Dataset, Truth};
@@ -183,7 +183,13 @@ fn run_dataset(row: &DatasetRow) -> RowResult {
         name: row.name.clone(),
         kind: "recorded",
         outcome: match data_dir() {
-            None => RowOutcome::Skipped,
+            None if required() => RowOutcome::Error(format!(
+                "recorded data folder not found and {REQUIRE_VAR} is set"
+            )),
+            None => {
+                report_skip(&format!("manifest row {}", row.name));
+                RowOutcome::Skipped
+            }
             Some(dir) => match row.records(&dir) {
                 Ok(r) => RowOutcome::Ran(Box::new(Summary::of(&r))),
                 Err(e) => RowOutcome::Error(e),

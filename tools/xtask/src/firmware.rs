@@ -89,8 +89,7 @@ pub fn make_frames(root: &Path, n: usize) -> Result<PathBuf, String> {
     std::fs::create_dir_all(&dir).map_err(|e| e.to_string())?;
     let tool = root.join("target/release/trackfix");
     let mut parts = Vec::new();
-    let data = std::env::var_os("TRACKFIX_DATA")
-        .map_or_else(|| root.join("../shared/data"), PathBuf::from);
+    let data = crate::data_dir(root);
     let esbc = data.join("esbc_2020177");
     if esbc.is_dir() {
         let real = dir.join(format!("real{n}.bin"));
@@ -111,9 +110,7 @@ pub fn make_frames(root: &Path, n: usize) -> Result<PathBuf, String> {
             .arg(esbc.join("ESBC00DNK_R_20201770000_01D_MN.rnx")))?;
         parts.push(real);
     } else {
-        println!(
-            "xtask: SKIPPED recorded epochs for the firmware: no data folder (synthetic only)"
-        );
+        crate::note_skip("recorded epochs for the firmware (synthetic only)");
     }
     let counts = if n >= 24 { "8,12,24" } else { "8,12" };
     let synth = dir.join(format!("synth{n}.bin"));

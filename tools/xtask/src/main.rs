@@ -74,7 +74,7 @@ fn output(dir: &Path, program: &str, args: &[&str]) -> Option<String> {
 fn main() -> ExitCode {
     let args: Vec<String> = std::env::args().skip(1).collect();
     match args.first().map(String::as_str) {
-        Some("test") => test(),
+        Some("test") => test(args.iter().any(|a| a == "--allow-missing-data")),
         Some("firmware") => {
             let mut r = Runner {
                 passed: vec![],
@@ -92,7 +92,16 @@ fn main() -> ExitCode {
             finish(&r)
         }
         _ => {
-            eprintln!("usage: cargo xtask test      run every check (the CI command)");
+            eprintln!(
+                "usage: cargo xtask test      run every check (the CI command); the recorded data"
+            );
+            eprintln!(
+                "                             folder is required: a missing one fails the run"
+            );
+            eprintln!("       cargo xtask test --allow-missing-data");
+            eprintln!(
+                "                             the same, but tests needing the data skip (counted)"
+            );
             eprintln!(
                 "       cargo xtask vectors   regenerate the Python reference vectors in place"
             );
@@ -118,12 +127,36 @@ fn finish(r: &Runner) -> ExitCode {
     }
 }
 
-fn test() -> ExitCode {
+/// Where the test binaries append one line per skipped data test (see `host-tests/src/data.rs`).
+fn skip_log(root: &Path) -> PathBuf {
+    root.join("target/test-skips.log")
+}
+
+fn test(allow_missing_data: bool) -> ExitCode {
     let root = root();
     let mut r = Runner {
         passed: vec![],
         failed: vec![],
     };
+    // Every child process inherits these: with the data required, a test or manifest row that
+    // cannot find the recorded data fails instead of skipping (CI always has the data).
+    let log = skip_log(&root);
+    let _ = std::fs::create_dir_all(root.join("target"));
+    let _ = std::fs::remove_file(&log);
+    std::env::set_var("TRACKFIX_SKIP_LOG", &log);
+    if allow_missing_data {
+        std::env::remove_var("TRACKFIX_REQUIRE_DATA");
+    } else {
+        std::env::set_var("TRACKFIX_REQUIRE_DATA", "1");
+        let data = data_dir(&root);
+        if !data.is_dir() {
+            println!(
+                "xtask: the recorded data folder {} is missing: set TRACKFIX_DATA, or run `cargo xtask test --allow-missing-data` to skip the tests that need it",
+                data.display()
+            );
+        }
+        r.step("recorded data folder present", data.is_dir());
+    }
     let toolchain = output(&root, "rustc", &["--version"]).unwrap_or_default();
     println!("xtask: toolchain {}", toolchain.trim());
 
@@ -246,7 +279,35 @@ fn test() -> ExitCode {
         &["bench", "-p", "trackfix-harness", "--no-run"],
     );
     vectors(&mut r, false);
+    let skips = std::fs::read_to_string(&log).unwrap_or_default();
+    if !skips.is_empty() {
+        println!(
+            "\n{skips}xtask: {} test(s) or row(s) SKIPPED for want of the recorded data",
+            skips.lines().count()
+        );
+    }
     finish(&r)
+}
+
+/// Prints a skip for want of the recorded data and appends it to the skip log.
+fn note_skip(what: &str) {
+    let line = format!("SKIPPED {what}: recorded data folder not found\n");
+    print!("xtask: {line}");
+    if let Some(log) = std::env::var_os("TRACKFIX_SKIP_LOG") {
+        use std::io::Write;
+        if let Ok(mut f) = std::fs::OpenOptions::new()
+            .create(true)
+            .append(true)
+            .open(log)
+        {
+            let _ = f.write_all(line.as_bytes());
+        }
+    }
+}
+
+/// The recorded data folder: `TRACKFIX_DATA`, else `../shared/data` beside the checkout.
+fn data_dir(root: &Path) -> PathBuf {
+    std::env::var_os("TRACKFIX_DATA").map_or_else(|| root.join("../shared/data"), PathBuf::from)
 }
 
 /// Regenerates the Python reference vectors in a private virtual environment with the
@@ -407,17 +468,14 @@ fn firmware_steps(r: &mut Runner, write_docs: bool) {
         );
         let path = root.join("docs/firmware.md");
         let page = std::fs::read_to_string(&path).unwrap_or_default();
-        let data = std::env::var_os("TRACKFIX_DATA")
-            .map_or_else(|| root.join("../shared/data"), PathBuf::from);
+        let data = data_dir(&root);
         match firmware::splice(&page, &table) {
             Some(new) if write_docs => {
                 let ok = std::fs::write(&path, new).is_ok();
                 r.step("wrote docs/firmware.md", ok);
             }
             Some(_) if !data.is_dir() => {
-                println!(
-                    "xtask: SKIPPED docs/firmware.md comparison: measured without recorded data"
-                );
+                note_skip("docs/firmware.md comparison (measured without recorded data)");
             }
             Some(new) => {
                 let same = firmware::tables_agree(&new, &page);
