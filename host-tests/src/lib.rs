@@ -12,3 +12,4 @@ pub mod rinex;
 pub mod scenario;
 pub mod sp3;
 pub mod synth;
+pub mod truth;

@@ -1,11 +1,12 @@
-//! Synthetic measurements: a GPS-like and a Galileo-like constellation of our own
-//! elements, a static receiver, and pseudoranges built from the same physics the engine
-//! models (orbit, satellite clock with relativity and group delay, Sagnac, receiver clock),
-//! plus Gaussian code noise of known σ. Deterministic from a seed.
+//! Synthetic measurements: GPS-, Galileo- and BeiDou-like constellations of our own
+//! elements, a static receiver, and pseudoranges built from the physics the engine models
+//! (orbit, satellite clock with relativity and group delay, Sagnac, receiver clock) as
+//! computed by the independent truth models of [`crate::truth`], plus Gaussian code noise of
+//! known σ. Deterministic from a seed.
 
+use crate::truth::{self, atmosphere, clock, Mutation};
 use rand::{Rng, SeedableRng};
 use rand_distr::{Distribution, Normal};
-use trackfix_engine::tropo::ZenithDelay;
 use trackfix_engine::{
     BroadcastEphemeris, Epoch, Geodetic, GnssTime, IonoCoefficients, LocalFrame, Observation,
     SatId, Signal, System, SPEED_OF_LIGHT,
@@ -216,40 +217,18 @@ pub struct StaticReceiver {
     pub inter_system_bias_m: f64,
 }
 
-/// The true geometric delay and transmit-time state of one satellite for reception at
-/// true time `t_true`: returns the pseudorange without noise and the satellite's
-/// Sagnac-rotated position.
+/// The true pseudorange (no atmosphere, no noise) and the satellite's Sagnac-rotated
+/// position for reception at true time `t_true`, from the independent truth models of
+/// [`crate::truth`] (never the engine's own orbit, clock or group-delay functions).
 pub fn true_pseudorange(
     eph: &BroadcastEphemeris,
     t_true: GnssTime,
     rx: [f64; 3],
     rx_clock_m: f64,
 ) -> (f64, [f64; 3]) {
-    let toe = eph.toe().unwrap_or(t_true);
-    let toc = eph.toc().unwrap_or(t_true);
-    let c = eph.sat.system.constants();
-    let mut tau = 0.075;
-    let mut sat = [0.0; 3];
-    // Each pass shrinks the travel-time error by about v/c ≈ 1e-5: three passes reach
-    // far below a nanosecond from a 75 ms start.
-    for _ in 0..3 {
-        let s = eph.evaluate(t_true.seconds_since(toe) - tau, 0.0).pos;
-        let th = c.omega_e * tau;
-        sat = [
-            s[0] * th.cos() + s[1] * th.sin(),
-            -s[0] * th.sin() + s[1] * th.cos(),
-            s[2],
-        ];
-        let d = [sat[0] - rx[0], sat[1] - rx[1], sat[2] - rx[2]];
-        tau = (d[0] * d[0] + d[1] * d[1] + d[2] * d[2]).sqrt() / SPEED_OF_LIGHT;
-    }
     let signal = primary_signal(eph.sat.system);
-    let st = eph.evaluate(
-        t_true.seconds_since(toe) - tau,
-        t_true.seconds_since(toc) - tau,
-    );
-    let dt_sat = st.clock_s - eph.group_delay_s(signal);
-    (SPEED_OF_LIGHT * (tau - dt_sat) + rx_clock_m, sat)
+    let r = truth::pseudorange(eph, signal, t_true, rx, rx_clock_m, &Mutation::default());
+    (r.pseudorange_m, r.sat_ecef_m)
 }
 
 /// The signal synthetic observations carry for a system.
@@ -292,7 +271,6 @@ pub fn observe_with<const N: usize>(
     let bias = tag.seconds_since(t_true) * SPEED_OF_LIGHT;
     let frame = LocalFrame::at_ecef(rx.position);
     let geo = Geodetic::from_ecef(rx.position);
-    let zenith = ZenithDelay::standard_atmosphere(geo.lat_rad, geo.height_m);
     let unit = Normal::new(0.0, 1.0).ok();
     let mut epoch = Epoch::new(tag);
     for eph in &constellation.ephemerides {
@@ -308,12 +286,20 @@ pub fn observe_with<const N: usize>(
         }
         let signal = primary_signal(eph.sat.system);
         if let Some((k, scale)) = errors.iono {
+            let coefficients = (k.alpha, k.beta);
             pr += scale
-                * signal.iono_scale_from_l1()
-                * k.delay_l1_m(geo.lat_rad, geo.lon_rad, az, el, t_true.tow_s());
+                * clock::iono_scale_from_l1(signal)
+                * atmosphere::klobuchar_l1_m(
+                    &coefficients,
+                    geo.lat_rad,
+                    geo.lon_rad,
+                    az,
+                    el,
+                    t_true.tow_s(),
+                );
         }
         if errors.troposphere {
-            pr += zenith.slant_m(el.sin());
+            pr += atmosphere::troposphere_m(geo.lat_rad, geo.height_m, el);
         }
         let sigma = if errors.constant_sigma {
             errors.sigma_m

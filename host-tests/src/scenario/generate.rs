@@ -3,11 +3,11 @@
 
 use super::motion::Mover;
 use super::spec::{ClockKind, EphemerisSource, ScenarioSpec};
-use crate::synth::{constellation, primary_signal, rereference, true_pseudorange};
+use crate::synth::{constellation, primary_signal, rereference};
+use crate::truth::{self, atmosphere, clock, orbit, Mutation};
 use rand::{Rng, SeedableRng};
 use rand_distr::{Distribution, Normal};
 use std::collections::HashMap;
-use trackfix_engine::tropo::ZenithDelay;
 use trackfix_engine::{
     BroadcastEphemeris, Epoch, GnssTime, IonoCoefficients, LocalFrame, Observation, SatId, Signal,
     System, SPEED_OF_LIGHT,
@@ -71,6 +71,7 @@ pub struct Generator {
     tracking_since: Option<f64>,
     was_awake: bool,
     faults: Vec<(SatId, f64, f64, f64)>,
+    mutation: Mutation,
 }
 
 /// Parses "G07"-style satellite names.
@@ -158,7 +159,16 @@ impl Generator {
             tracking_since: None,
             was_awake: false,
             faults,
+            mutation: Mutation::default(),
         })
+    }
+
+    /// The same generator with a deliberate error in its truth models (for the test that
+    /// shows such an error reaches the accuracy gates).
+    #[must_use]
+    pub fn with_mutation(mut self, mutation: Mutation) -> Self {
+        self.mutation = mutation;
+        self
     }
 
     fn awake(&self, s: f64) -> (bool, bool) {
@@ -293,21 +303,22 @@ impl Generator {
     ) {
         let frame = LocalFrame::new(kin.ecef, &kin.geodetic);
         let geo = kin.geodetic;
-        let zenith = ZenithDelay::standard_atmosphere(geo.lat_rad, geo.height_m);
+        let klobuchar = (SCENARIO_IONO.alpha, SCENARIO_IONO.beta);
         let errs = self.spec.errors.clone();
         let unit = Normal::new(0.0, 1.0).ok();
         let base = self.base.clone();
         for eph in &base {
             // Cheap visibility test first: one orbit evaluation, 2° of margin for the
             // ~75 ms of travel time it ignores.
-            let toe = eph.toe().unwrap_or(t_true);
-            let rough = eph.evaluate(t_true.seconds_since(toe) - 0.075, 0.0).pos;
+            let rough = orbit::position(eph, orbit::shift(t_true, -0.075));
             if frame.az_el(rough).1.to_degrees() < errs.horizon_deg - 2.0 {
                 continue;
             }
             let sys = eph.sat.system;
             let clock = self.clock_bias_m + self.isb_m[sys.index()];
-            let (pr0, sat_pos) = true_pseudorange(eph, t_true, kin.ecef, clock);
+            let signal = primary_signal(sys);
+            let truth = truth::pseudorange(eph, signal, t_true, kin.ecef, clock, &self.mutation);
+            let (pr0, sat_pos) = (truth.pseudorange_m, truth.sat_ecef_m);
             let (az, el) = frame.az_el(sat_pos);
             let el_deg = el.to_degrees();
             if el_deg < errs.horizon_deg {
@@ -345,8 +356,16 @@ impl Generator {
                 + p.sis_amp[1] * (std::f64::consts::TAU * hours / 12.0 + p.sis_phase[1]).sin();
             let iono_l1 = (errs.iono_scale
                 + errs.iono_wander * (std::f64::consts::TAU * hours / 2.0 + p.iono_phase).sin())
-                * SCENARIO_IONO.delay_l1_m(geo.lat_rad, geo.lon_rad, az, el, t_true.tow_s());
-            let tropo = zenith.slant_m(sin_el) * (1.0 + errs.tropo_error);
+                * atmosphere::klobuchar_l1_m(
+                    &klobuchar,
+                    geo.lat_rad,
+                    geo.lon_rad,
+                    az,
+                    el,
+                    t_true.tow_s(),
+                );
+            let tropo =
+                atmosphere::troposphere_m(geo.lat_rad, geo.height_m, el) * (1.0 + errs.tropo_error);
             let fault: f64 = self
                 .faults
                 .iter()
@@ -354,11 +373,10 @@ impl Generator {
                 .map(|(_, start, step, ramp)| step + ramp * (s - start))
                 .sum();
             let common = pr0 + sis + tropo + nlos + p.multipath + fault;
-            let signal = primary_signal(sys);
             let mut o = Observation::code(
                 eph.sat,
                 signal,
-                common + iono_l1 * signal.iono_scale_from_l1() + sigma * draw(),
+                common + iono_l1 * clock::iono_scale_from_l1(signal) + sigma * draw(),
             );
             o.cn0_dbhz = Some(cn0 as f32);
             let _ = epoch.push(o);
@@ -370,11 +388,16 @@ impl Generator {
                 };
                 // The second signal's group delay differs from the first's by the broadcast
                 // TGD/BGD terms.
-                let gd = (eph.group_delay_s(second) - eph.group_delay_s(signal)) * SPEED_OF_LIGHT;
+                let gd = (clock::group_delay_s(eph, second) - clock::group_delay_s(eph, signal))
+                    * self.mutation.group_delay
+                    * SPEED_OF_LIGHT;
                 let mut o2 = Observation::code(
                     eph.sat,
                     second,
-                    common + gd + iono_l1 * second.iono_scale_from_l1() + 1.2 * sigma * draw(),
+                    common
+                        + gd
+                        + iono_l1 * clock::iono_scale_from_l1(second)
+                        + 1.2 * sigma * draw(),
                 );
                 o2.cn0_dbhz = Some((cn0 - 3.0) as f32);
                 let _ = epoch.push(o2);

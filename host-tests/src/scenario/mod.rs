@@ -6,6 +6,7 @@ pub mod motion;
 pub mod spec;
 
 use crate::record::EpochRecord;
+use crate::truth::Mutation;
 use generate::{Generator, GEN_N, SCENARIO_IONO};
 pub use spec::ScenarioSpec;
 use trackfix_engine::{Config, Engine};
@@ -18,7 +19,21 @@ pub const SCENARIO_EPH: usize = 96;
 /// # Errors
 /// A message naming the scenario field that cannot be used.
 pub fn run(spec: &ScenarioSpec, config: Config) -> Result<Vec<EpochRecord>, String> {
-    let gen = Generator::new(spec)?;
+    run_mutated(spec, config, Mutation::default())
+}
+
+/// Runs a scenario whose truth models carry a deliberate error (see [`Mutation`]): the
+/// engine's models then disagree with the measurements as a mistake in the engine would
+/// make them disagree.
+///
+/// # Errors
+/// As [`run`].
+pub fn run_mutated(
+    spec: &ScenarioSpec,
+    config: Config,
+    mutation: Mutation,
+) -> Result<Vec<EpochRecord>, String> {
+    let gen = Generator::new(spec)?.with_mutation(mutation);
     let mut engine: Box<Engine<GEN_N, SCENARIO_EPH>> = Box::new(Engine::new(config));
     engine.set_ionosphere(SCENARIO_IONO);
     let mut out = Vec::new();
