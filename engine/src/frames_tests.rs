@@ -27,15 +27,28 @@ fn epsg_9602_worked_example_both_ways() {
     assert!((back.height_m - 73.0).abs() < 1e-3);
 }
 
-// Source: EPSG Guidance Note 7-2, methods 9836/9837 (ENU) [V origin; C: pymap3d.ecef2enu
-// to 1 mm, via CHECKS.md]: origin 55° N, 5° E, 200 m has X0 3,652,755.3058,
-// Y0 319,574.6799, Z0 5,201,547.3536.
+// Source: EPSG Guidance Note 7-2, methods 9836/9837 (geocentric ↔ topocentric) worked
+// example [V, via CHECKS.md; C: pymap3d.ecef2enu reproduces it to 1 mm]: topocentric origin
+// 55° N, 5° E, 200 m (X0 3,652,755.3058, Y0 319,574.6799, Z0 5,201,547.3536); the point
+// X 3,771,793.968, Y 140,253.342, Z 5,124,304.349 is at E −189,013.869, N −128,642.040,
+// U −4,220.171 m. The note prints millimetres (origin: 0.1 mm), hence the tolerances.
 #[test]
-fn epsg_9836_topocentric_origin() {
-    let o = Geodetic::from_degrees(55.0, 5.0, 200.0).to_ecef();
+fn epsg_9836_topocentric_example() {
+    let g = Geodetic::from_degrees(55.0, 5.0, 200.0);
+    let o = g.to_ecef();
     let want = [3_652_755.3058, 319_574.6799, 5_201_547.3536];
     for k in 0..3 {
-        assert!((o[k] - want[k]).abs() < 1e-4, "axis {k}");
+        assert!((o[k] - want[k]).abs() < 1e-4, "origin axis {k}");
+    }
+    let enu = LocalFrame::new(o, &g).enu([3_771_793.968, 140_253.342, 5_124_304.349]);
+    let want = [-189_013.869, -128_642.040, -4_220.171];
+    for k in 0..3 {
+        assert!(
+            (enu[k] - want[k]).abs() < 1e-3,
+            "ENU axis {k}: {} vs {}",
+            enu[k],
+            want[k]
+        );
     }
 }
 

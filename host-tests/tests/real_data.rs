@@ -1,11 +1,13 @@
 //! Fixes on real reference-station recordings against their known coordinates.
 //!
-//! Thresholds: the GPS SPS Performance Standard, 2001 edition [V: excerpt, via CHECKS.md],
-//! bounds global average single-frequency accuracy at ≤ 13 m horizontal and ≤ 22 m
-//! vertical (95 %). That is the published figure every fix here must meet. Our own
-//! measured figures (printed, and quoted in docs/accuracy.md) are much better; a second,
-//! tighter regression gate sits at 1.5 × the measured value (a margin for legitimate
-//! model changes, not for noise: the replay is deterministic).
+//! Two gates on every row:
+//! - the published bound: the GPS SPS Performance Standard, 2001 edition [V: excerpt, via
+//!   CHECKS.md], ≤ 13 m horizontal and ≤ 22 m vertical (95 %);
+//! - the regression gate: each of the 50 % and 95 % horizontal and vertical errors at most
+//!   `MARGIN` × the value measured on these files (quoted beside each row and in the README).
+//!   The replay is deterministic, so the margin is not for noise: it leaves room for a
+//!   legitimate model change of a few decimetres and none for a model error (a sign error
+//!   in a clock, group-delay or Sagnac term moves these errors by metres).
 
 use trackfix_engine::{Config, NoFixReason, SatStatus, System};
 use trackfix_harness::data::{data_dir_or_skip, verify};
@@ -14,6 +16,33 @@ use trackfix_harness::replay::{dataset, replay};
 
 const SPS_2001_H95_M: f64 = 13.0;
 const SPS_2001_V95_M: f64 = 22.0;
+/// Regression margin over the measured errors (see the module documentation).
+const MARGIN: f64 = 1.25;
+
+/// Measured errors of one row, m: horizontal 50 / 95 %, vertical 50 / 95 %.
+struct Measured {
+    h50: f64,
+    h95: f64,
+    v50: f64,
+    v95: f64,
+}
+
+/// Both gates (see the module documentation).
+fn gate(name: &str, a: &Accuracy, m: &Measured) {
+    assert!(a.horizontal.p95 <= SPS_2001_H95_M, "{name}: above SPS 2001");
+    assert!(a.vertical.p95 <= SPS_2001_V95_M, "{name}: above SPS 2001");
+    for (what, got, measured) in [
+        ("H 50 %", a.horizontal.p50, m.h50),
+        ("H 95 %", a.horizontal.p95, m.h95),
+        ("V 50 %", a.vertical.p50, m.v50),
+        ("V 95 %", a.vertical.p95, m.v95),
+    ] {
+        assert!(
+            got <= MARGIN * measured,
+            "{name}: {what} {got:.2} m above {MARGIN} × the measured {measured:.2} m"
+        );
+    }
+}
 
 fn gps_only() -> Config {
     let mut c = Config::default();
@@ -56,8 +85,63 @@ fn esbc_gps_l1_klobuchar() {
         a.fixes, 240,
         "every epoch of a reference station has ≥ 6 GPS satellites"
     );
-    assert!(a.horizontal.p95 <= SPS_2001_H95_M);
-    assert!(a.vertical.p95 <= SPS_2001_V95_M);
+    let measured = Measured {
+        h50: 2.09,
+        h95: 2.44,
+        v50: 0.63,
+        v95: 1.71,
+    };
+    gate("ESBC GPS", &a, &measured);
+    // Each satellite's mean residual over the two hours: a wrong group delay or clock term
+    // of one satellite shows as its own bias even when the fix absorbs most of it. The
+    // shared/data README measured residuals of about 1 m RMS with an independent
+    // dual-frequency fix; a single-frequency fix adds the ionosphere's model error (the
+    // Klobuchar amplitude clips to zero in 2020, README pitfalls), so the bound is
+    // MARGIN × the worst mean measured here.
+    let worst = worst_mean_residual(&r);
+    println!("ESBC GPS: worst per-satellite mean residual {worst:.2} m");
+    assert!(
+        worst <= MARGIN * ESBC_GPS_WORST_MEAN_RESIDUAL_M,
+        "a satellite's mean residual is {worst:.2} m"
+    );
+}
+
+/// Measured worst per-satellite mean residual of the ESBC GPS row, m.
+const ESBC_GPS_WORST_MEAN_RESIDUAL_M: f64 = 1.53;
+
+/// The largest |mean post-fit residual| of any satellite used in at least 20 epochs.
+fn worst_mean_residual(r: &[trackfix_harness::record::EpochRecord]) -> f64 {
+    let mut per_sat: std::collections::BTreeMap<_, (f64, u32)> = Default::default();
+    for e in r {
+        for s in e.sats.iter().filter(|s| s.status == SatStatus::Used) {
+            if let Some(res) = s.residual_m {
+                let x = per_sat.entry(s.sat).or_insert((0.0, 0));
+                x.0 += f64::from(res);
+                x.1 += 1;
+            }
+        }
+    }
+    per_sat
+        .values()
+        .filter(|(_, n)| *n >= 20)
+        .map(|(sum, n)| (sum / f64::from(*n)).abs())
+        .fold(0.0, f64::max)
+}
+
+/// The smallest number of `system` satellites used in any epoch with a fix, from the
+/// `from`-th epoch on.
+fn fewest_used(r: &[trackfix_harness::record::EpochRecord], system: System, from: usize) -> usize {
+    r.iter()
+        .skip(from)
+        .filter(|e| e.fix.is_some())
+        .map(|e| {
+            e.sats
+                .iter()
+                .filter(|s| s.sat.system == system && s.status == SatStatus::Used)
+                .count()
+        })
+        .min()
+        .unwrap_or(0)
 }
 
 #[test]
@@ -70,15 +154,21 @@ fn esbc_gps_galileo_l1() {
     let a = Accuracy::of(&r);
     report("ESBC GPS L1 C/A + Galileo E1", &a);
     assert_eq!(a.fixes, 240);
-    assert!(a.horizontal.p95 <= SPS_2001_H95_M);
-    assert!(a.vertical.p95 <= SPS_2001_V95_M);
-    // Both clocks estimated: the fix says which systems it used.
-    let used_galileo = r[100]
-        .sats
-        .iter()
-        .filter(|s| s.sat.system == System::Galileo && s.status == SatStatus::Used)
-        .count();
-    assert!(used_galileo >= 2, "{used_galileo} Galileo satellites used");
+    let measured = Measured {
+        h50: 1.17,
+        h95: 1.54,
+        v50: 0.66,
+        v95: 1.24,
+    };
+    gate("ESBC GPS + Galileo", &a, &measured);
+    // Both systems contribute at every epoch (Galileo had 22 satellites in service in 2020;
+    // a reference station sees 5–9 above 10°, common practice).
+    let fewest = fewest_used(&r, System::Galileo, 0);
+    println!("ESBC GPS + Galileo: at least {fewest} Galileo satellites used in every fix");
+    assert!(
+        fewest >= 4,
+        "an epoch used only {fewest} Galileo satellites"
+    );
 }
 
 // NYA1 truth: header APPROX POSITION (shared/data/README.md: no independent published
@@ -98,9 +188,21 @@ fn nya1_high_latitude_gps_galileo_beidou() {
         "nya1_2024124/NYA100NOR_S_20241240000_01D_CN.rnx",
     ];
     let ds = dataset(&dir, NYA1_OBS, &nav, Some(NYA1));
-    for (name, cfg) in [
-        ("NYA1 GPS L1 C/A + Klobuchar", gps_only()),
-        ("NYA1 GPS + Galileo + BeiDou", Config::default()),
+    let gps = Measured {
+        h50: 0.24,
+        h95: 0.53,
+        v50: 0.66,
+        v95: 1.81,
+    };
+    let all = Measured {
+        h50: 0.25,
+        h95: 0.53,
+        v50: 0.83,
+        v95: 1.87,
+    };
+    for (name, cfg, measured) in [
+        ("NYA1 GPS L1 C/A + Klobuchar", gps_only(), gps),
+        ("NYA1 GPS + Galileo + BeiDou", Config::default(), all),
     ] {
         let r = replay(&ds, cfg).unwrap();
         let a = Accuracy::of(&r);
@@ -115,8 +217,23 @@ fn nya1_high_latitude_gps_galileo_beidou() {
             ));
         }
         assert!(a.fixes + 1 >= a.epochs);
-        assert!(a.horizontal.p95 <= SPS_2001_H95_M);
-        assert!(a.vertical.p95 <= SPS_2001_V95_M);
+        gate(name, &a, &measured);
+        if cfg.systems == [true, true, true] {
+            // Every system contributes: a wrong BeiDou week or time offset would drop
+            // BeiDou silently and barely move this fix. From the tenth epoch (5 min) on:
+            // the day's navigation files begin at 00:00, so the first records a receiver
+            // would hold arrive during the first minutes (shared/data README pitfalls).
+            for system in [System::Galileo, System::Beidou] {
+                let fewest = fewest_used(&r, system, 10);
+                println!(
+                    "{name}: at least {fewest} {system:?} satellites used in every fix after 5 min"
+                );
+                assert!(
+                    fewest >= 4,
+                    "an epoch used only {fewest} {system:?} satellites"
+                );
+            }
+        }
     }
 }
 
@@ -143,7 +260,12 @@ fn kms3_rinex4_gps_galileo() {
         r[0].fix.unwrap().iono,
         trackfix_engine::IonoCorrection::Klobuchar
     );
-    assert!(a.fixes >= 1);
-    assert!(a.horizontal.p95 <= SPS_2001_H95_M);
-    assert!(a.vertical.p95 <= SPS_2001_V95_M);
+    assert_eq!(a.fixes, 19);
+    let measured = Measured {
+        h50: 1.29,
+        h95: 1.58,
+        v50: 0.98,
+        v95: 1.32,
+    };
+    gate("KMS3", &a, &measured);
 }
