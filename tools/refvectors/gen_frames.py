@@ -26,7 +26,11 @@ while len(points) < 1200:
     points.append((lat, lon, h))
 
 out = sys.stdout
-out.write(f"# generator: tools/refvectors/gen_frames.py; library: pymap3d {pymap3d.__version__}\n")
+import numpy  # pymap3d computes with numpy when it is installed (it is, for astropy)
+
+out.write(
+    f"# generator: tools/refvectors/gen_frames.py; library: pymap3d {pymap3d.__version__} with numpy {numpy.__version__}\n"
+)
 out.write("# command: python3 tools/refvectors/gen_frames.py > tools/refvectors/frames_pymap3d.csv\n")
 out.write("# lat_deg,lon_deg,h_m,x_m,y_m,z_m,lat2_deg,lon2_deg,h2_m,obs_lat_deg,obs_lon_deg,obs_h_m,az_deg,el_deg\n")
 for i, (lat, lon, h) in enumerate(points):
