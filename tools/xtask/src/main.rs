@@ -394,7 +394,10 @@ fn vectors(r: &mut Runner, write: bool) {
             );
         }
     }
-    for (script, file) in [("gen_frames.py", "frames_pymap3d.csv")] {
+    for (script, file) in [
+        ("gen_frames.py", "frames_pymap3d.csv"),
+        ("gen_times.py", "times_astropy.csv"),
+    ] {
         println!("\nxtask: == regenerate {file}");
         let out = Command::new(&vpy_s)
             .arg(dir.join(script))
