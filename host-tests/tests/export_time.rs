@@ -8,12 +8,13 @@
 //!
 //! Each instant goes through every writer that prints a time: NMEA GGA, RMC (time and date)
 //! and GST, with and without a fix; the GPX `<time>` of the metadata and of the track point;
-//! the CSV `gps_week`, `tow_s` and `utc` columns. Tolerance: exact (the instants are whole
-//! hundredths of a second, so every printed field is exact). The GeoJSON writer prints no
-//! time, so there is nothing of it to check here.
+//! the CSV `gps_week`, `tow_s` and `utc` columns; the GeoJSON `times_utc`, `start_utc` and
+//! `end_utc` properties. Tolerance: exact (the instants are whole hundredths of a second,
+//! so every printed field is exact).
 
 use trackfix_engine::{FixKind, GnssTime, IonoCorrection};
-use trackfix_harness::export::{csv, gpx, iso8601, nmea, GPS_MINUS_UTC_S};
+use trackfix_harness::export::{csv, geojson, gpx, iso8601, nmea, GPS_MINUS_UTC_S};
+use trackfix_harness::metrics::Summary;
 use trackfix_harness::record::{EpochRecord, FixSummary};
 
 const VECTORS: &str = include_str!("../../tools/refvectors/times_astropy.csv");
@@ -149,4 +150,35 @@ fn csv_week_tow_and_utc_match_astropy() {
             assert_eq!(cols[2], r.iso, "{}", r.note);
         }
     }
+}
+
+#[test]
+fn geojson_times_match_astropy() {
+    let rows = rows();
+    let records: Vec<EpochRecord> = rows
+        .iter()
+        .map(|r| record(GnssTime::from_week_tow(r.week, r.tow_s).unwrap(), true))
+        .collect();
+    let doc = geojson::write_run("t", &records, &Summary::of(&records));
+    let v: serde_json::Value = serde_json::from_str(&doc).unwrap();
+    let p = &v["features"][0]["properties"];
+    let times: Vec<&str> = p["times_utc"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|t| t.as_str().unwrap())
+        .collect();
+    let want: Vec<&str> = rows.iter().map(|r| r.iso.as_str()).collect();
+    assert_eq!(times, want);
+    assert_eq!(p["start_utc"], want[0]);
+    assert_eq!(p["end_utc"], want[want.len() - 1]);
+}
+
+// NMEA time fields never show 60 seconds: 23:59:59.996 is 235959.99, not 235960.00
+// (NMEA 0183 hhmmss.ss; seconds 00–59 outside a leap second, common practice).
+#[test]
+fn nmea_seconds_are_truncated_not_rounded_up() {
+    assert_eq!(nmea::time_field(23, 59, 59.996, 2), "235959.99");
+    assert_eq!(nmea::time_field(12, 35, 19.0, 2), "123519.00");
+    assert_eq!(nmea::time_field(12, 35, 19.34, 2), "123519.34");
 }

@@ -1,7 +1,10 @@
 //! GeoJSON (RFC 7946): a FeatureCollection with the track as a LineString and the run's
 //! summary as properties. Positions are [longitude, latitude, ellipsoidal height] on WGS-84
-//! (RFC 7946 §4), rounded to 1e-8° (about 1 mm).
+//! (RFC 7946 §4), rounded to 1e-8° (about 1 mm). RFC 7946 defines no time member, so the
+//! UTC time of each position (ISO 8601, as in the GPX and CSV files) goes in the feature's
+//! `times_utc` property, one per coordinate, with `start_utc` and `end_utc`.
 
+use crate::export::iso8601;
 use crate::metrics::Summary;
 use crate::record::EpochRecord;
 use serde_json::json;
@@ -9,10 +12,13 @@ use serde_json::json;
 /// The GeoJSON document of a run.
 pub fn write_run(name: &str, records: &[EpochRecord], summary: &Summary) -> String {
     let round = |v: f64, k: f64| (v * k).round() / k;
-    let coords: Vec<[f64; 3]> = records
+    let fixes: Vec<_> = records
         .iter()
-        .filter_map(|r| r.fix)
-        .map(|f| {
+        .filter_map(|r| r.fix.map(|f| (r.time, f)))
+        .collect();
+    let coords: Vec<[f64; 3]> = fixes
+        .iter()
+        .map(|(_, f)| {
             [
                 round(f.lat_lon_h[1], 1e8),
                 round(f.lat_lon_h[0], 1e8),
@@ -20,6 +26,7 @@ pub fn write_run(name: &str, records: &[EpochRecord], summary: &Summary) -> Stri
             ]
         })
         .collect();
+    let times: Vec<String> = fixes.iter().map(|(t, _)| iso8601(*t)).collect();
     let (mut w, mut s, mut e, mut n) = (180.0f64, 90.0f64, -180.0f64, -90.0f64);
     for c in &coords {
         w = w.min(c[0]);
@@ -37,6 +44,9 @@ pub fn write_run(name: &str, records: &[EpochRecord], summary: &Summary) -> Stri
                 "epochs": summary.epochs,
                 "fixes": summary.fixes,
                 "availability_pct": summary.availability_pct,
+                "start_utc": times.first(),
+                "end_utc": times.last(),
+                "times_utc": times,
                 "note": "Trackfix fixes; not for safety-of-life navigation"
             }
         }]

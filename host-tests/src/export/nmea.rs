@@ -41,9 +41,13 @@ impl Default for Style {
     }
 }
 
-/// `hhmmss.ss` UTC.
+/// `hhmmss.ss` UTC. The seconds are truncated to `decimals` places, never rounded up:
+/// rounding 59.996 s to two places would print the impossible `60.00`.
 pub fn time_field(h: u8, m: u8, s: f64, decimals: usize) -> String {
     let width = if decimals > 0 { 3 + decimals } else { 2 };
+    let scale = 10f64.powi(i32::try_from(decimals).unwrap_or(0));
+    // A nanosecond of slack keeps 12.34 s, stored as 12.3399999…, at 12.34.
+    let s = ((s * scale) + 1e-9 * scale).floor() / scale;
     format!("{h:02}{m:02}{s:0width$.decimals$}")
 }
 
