@@ -90,7 +90,7 @@ fn per_observation_table() {
             SatStatus::WeakSignal,
         ),
         (
-            "disabled system",
+            "satellite with no ephemeris held (system enabled)",
             Box::new(|o| {
                 o.sat = SatId::beidou(7);
                 o.signal = Signal::BdsB1I;
