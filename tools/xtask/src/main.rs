@@ -397,6 +397,7 @@ fn vectors(r: &mut Runner, write: bool) {
     for (script, file) in [
         ("gen_frames.py", "frames_pymap3d.csv"),
         ("gen_times.py", "times_astropy.csv"),
+        ("gen_models.py", "models_reference.csv"),
     ] {
         println!("\nxtask: == regenerate {file}");
         let out = Command::new(&vpy_s)
