@@ -2,6 +2,10 @@
 //! what it needs first; it is the README's test command and the only thing CI runs.
 //!
 //! Steps (each printed, each must pass):
+//! 0. the recorded data folder is present (`TRACKFIX_DATA` or `../shared/data`); every child
+//!    process gets `TRACKFIX_REQUIRE_DATA=1`, so a test or manifest row that cannot find the
+//!    data fails. `--allow-missing-data` turns that off: those tests then skip, and the
+//!    skips (collected in target/test-skips.log) are counted at the end;
 //! 1. the thumbv7em-none-eabihf target (rustup);
 //! 2. rustfmt check;
 //! 3. clippy `-D warnings` on the engine (host with tests, and target), and on the workspace;
@@ -14,9 +18,10 @@
 //!    with the measurements; rustfmt and clippy on it; the panic-free link check;
 //! 7. every test of the workspace (release mode: the real-data replays are faster);
 //! 8. the benchmarks compile;
-//! 9. with pinned Python packages: the reference vectors regenerated and compared with the
-//!    committed files; the demo report's GPX validated against the GPX 1.1 schema and its
-//!    NMEA parsed by pynmea2 (skipped, loudly, where Python is absent).
+//! 9. with pinned Python packages: the reference vectors (frames, models, exported times)
+//!    regenerated and compared with the committed files; the demo report's GPX validated
+//!    against the GPX 1.1 schema, its NMEA parsed by pynmea2 and its times compared with
+//!    astropy's (skipped, loudly, where Python is absent).
 
 mod firmware;
 
