@@ -6,7 +6,7 @@ by at least one test that does not need the data folder.
 Usage: python3 tools/mutations/run.py [--only NAME] [--markdown FILE]
 
 Copies the tracked and untracked (not ignored) files to a temporary folder, builds in
-target/mutants (kept between runs, so only what a mutation touches is rebuilt), runs
+target/mutants (kept between runs, so dependencies are not rebuilt), runs
 `cargo test --release --workspace --no-fail-fast` with TRACKFIX_DATA pointing nowhere and
 TRACKFIX_REQUIRE_DATA unset, and prints a Markdown table: mutation, file, caught or not,
 and the failing tests. Python standard library only. Not part of CI (about 2 minutes per
@@ -68,7 +68,9 @@ def copy_tree(dest):
         if not os.path.isfile(src):
             continue
         os.makedirs(os.path.dirname(os.path.join(dest, f)), exist_ok=True)
-        shutil.copy2(src, os.path.join(dest, f))
+        # Fresh modification times: cargo then rebuilds whatever a previous run left in the
+        # shared target folder from an older tree.
+        shutil.copy(src, os.path.join(dest, f))
 
 
 def run_tests(tree, target):
@@ -97,6 +99,7 @@ def main():
     with tempfile.TemporaryDirectory(prefix="trackfix-mutants-") as tmp:
         tree = os.path.join(tmp, "tree")
         copy_tree(tree)
+        print(f"copied the working tree to {tree}; building in {target}", flush=True)
         ok, failed, out = run_tests(tree, target)
         if not ok:
             print(out[-4000:])
