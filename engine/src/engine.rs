@@ -2,13 +2,13 @@
 //! epochs, all in fixed memory. Time is passed in with each epoch; nothing reads a clock.
 
 use crate::config::Config;
-use crate::ephemeris::{BroadcastEphemeris, EphemerisError};
-use crate::iono::IonoCoefficients;
-use crate::observation::{Epoch, Observation};
+use crate::corrections::iono::IonoCoefficients;
+use crate::measurements::observation::{Epoch, Observation};
+use crate::nav::ephemeris::{BroadcastEphemeris, EphemerisError};
+use crate::nav::store::{EphemerisStore, Ingested, StoredEphemeris};
 use crate::sat::SPEED_OF_LIGHT;
+use crate::snapshot::wls::{solve, Candidate, Outcome, Setup};
 use crate::solution::{FixKind, FixOutcome, SatStatus, SatUse, Solution};
-use crate::solve::{solve, Candidate, Outcome, Setup};
-use crate::store::{EphemerisStore, Ingested, StoredEphemeris};
 use crate::time::GnssTime;
 use heapless::Vec;
 

@@ -1,8 +1,10 @@
 //! Trackfix engine: pseudoranges and broadcast ephemerides in, a position fix out, in fixed
 //! memory, with no heap, no panics and no clock of its own.
 //!
-//! Data flows one way: [`Epoch`] → per-satellite state at transmit time ([`ephemeris`]) →
-//! corrections ([`iono`], [`tropo`], Sagnac, clocks) → weighted least squares → [`Solution`].
+//! Data flows one way, one folder per stage: [`measurements`] (the [`Epoch`]) → [`nav`]
+//! (per-satellite state at transmit time from the [`ephemeris`] in the [`store`]) →
+//! [`corrections`] ([`iono`], [`tropo`]; satellite clock and Sagnac) → [`snapshot`] (weighted
+//! least squares) → [`Solution`]. Only [`engine`] calls the stages, in that order.
 //!
 //! ```
 //! use trackfix_engine::{Config, Engine, Epoch, GnssTime};
@@ -24,20 +26,28 @@
     allow(clippy::needless_range_loop, clippy::arithmetic_side_effects)
 )]
 
+// Shared ground: identities and constants, time, frames, small linear algebra, the
+// configuration, the solution and the wire frame.
 pub mod config;
-pub mod engine;
-pub mod ephemeris;
 pub mod frames;
-pub mod iono;
 pub mod linalg;
-pub mod observation;
 pub mod sat;
 pub mod solution;
-mod solve;
-pub mod store;
 pub mod time;
-pub mod tropo;
 pub mod wire;
+
+// The stages (data flow: measurements → nav → corrections → snapshot) and `engine`, the
+// only caller of the stages, which calls them in that order.
+pub mod corrections;
+pub mod engine;
+pub mod measurements;
+pub mod nav;
+pub mod snapshot;
+
+// The modules' earlier flat paths, kept so user code does not change.
+pub use corrections::{iono, tropo};
+pub use measurements::observation;
+pub use nav::{ephemeris, store};
 
 pub use config::Config;
 pub use engine::{Engine, EpochError};

@@ -24,16 +24,16 @@ ROOT = os.path.abspath(os.path.join(os.path.dirname(__file__), "..", ".."))
 
 # (name, file, exact text, replacement). Each text must occur exactly once.
 MUTATIONS = [
-    ("relativity sign", "engine/src/ephemeris.rs",
+    ("relativity sign", "engine/src/nav/ephemeris.rs",
      "let relativity_s = c.f_rel * self.e", "let relativity_s = -c.f_rel * self.e"),
     ("F sign (GPS constant)", "engine/src/sat.rs",
      "f_rel: -4.442_807_633e-10,", "f_rel: 4.442_807_633e-10,"),
-    ("TGD sign inside group_delay_s", "engine/src/ephemeris.rs",
+    ("TGD sign inside group_delay_s", "engine/src/nav/ephemeris.rs",
      "self.tgd_s * signal.iono_scale_from_l1()", "-self.tgd_s * signal.iono_scale_from_l1()"),
     ("TGD sign where the clock takes it", "engine/src/engine.rs",
      "state.clock_s - held.eph.group_delay_s(obs.signal)",
      "state.clock_s + held.eph.group_delay_s(obs.signal)"),
-    ("Sagnac sign", "engine/src/solve.rs",
+    ("Sagnac sign", "engine/src/snapshot/wls.rs",
      "let theta = omega_e * norm(sub(sat, rx)) / SPEED_OF_LIGHT;",
      "let theta = -omega_e * norm(sub(sat, rx)) / SPEED_OF_LIGHT;"),
     ("reception time +1 s", "engine/src/engine.rs",
@@ -52,7 +52,7 @@ MUTATIONS = [
      "let week = week as u32;", "let week = week as u32 - 1;"),
     ("BeiDou week offset", "engine/src/time.rs",
      "pub const BDT_WEEK_OFFSET: u32 = 1356;", "pub const BDT_WEEK_OFFSET: u32 = 1357;"),
-    ("BeiDou GEO tilt sign", "engine/src/ephemeris.rs",
+    ("BeiDou GEO tilt sign", "engine/src/nav/ephemeris.rs",
      "let (sx, cx) = (-0.087_155_742_747_658_17,", "let (sx, cx) = (0.087_155_742_747_658_17,"),
     ("GPS−UTC in exports", "host-tests/src/export/mod.rs",
      "pub const GPS_MINUS_UTC_S: i32 = 18;", "pub const GPS_MINUS_UTC_S: i32 = 19;"),

@@ -23,9 +23,9 @@ pub use payload::{
     FIELDS as EPHEMERIS_FIELDS,
 };
 
-use crate::ephemeris::BroadcastEphemeris;
-use crate::iono::IonoCoefficients;
-use crate::observation::Epoch;
+use crate::corrections::iono::IonoCoefficients;
+use crate::measurements::observation::Epoch;
+use crate::nav::ephemeris::BroadcastEphemeris;
 
 /// First sync byte.
 pub const SYNC: [u8; 2] = [0xA7, 0x1C];

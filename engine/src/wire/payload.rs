@@ -7,9 +7,9 @@
 //! order of [`FIELDS`]. Ionosphere: α0–α3, β0–β3 as f64.
 
 use super::{Message, WireError, EPHEMERIS_BYTES, EPOCH_HEADER_BYTES, IONO_BYTES, OBS_BYTES};
-use crate::ephemeris::BroadcastEphemeris;
-use crate::iono::IonoCoefficients;
-use crate::observation::{Epoch, Observation};
+use crate::corrections::iono::IonoCoefficients;
+use crate::measurements::observation::{Epoch, Observation};
+use crate::nav::ephemeris::BroadcastEphemeris;
 use crate::sat::{SatId, Signal, System};
 use crate::time::GnssTime;
 

@@ -1,5 +1,5 @@
 use super::*;
-use crate::observation::Observation;
+use crate::measurements::observation::Observation;
 use crate::sat::{SatId, Signal};
 use crate::time::GnssTime;
 

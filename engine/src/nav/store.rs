@@ -13,7 +13,7 @@
 //! The store never looks at wall time: a replay must feed records in the order a receiver
 //! would have decoded them (by transmission time), so no record is used before it existed.
 
-use crate::ephemeris::{BroadcastEphemeris, EphemerisError};
+use crate::nav::ephemeris::{BroadcastEphemeris, EphemerisError};
 use crate::sat::SatId;
 use crate::time::GnssTime;
 use heapless::Vec;

@@ -17,12 +17,12 @@
 //! Cholesky; once per epoch one geodetic conversion and the standard atmosphere.
 
 use crate::config::Config;
+use crate::corrections::iono::IonoCoefficients;
+use crate::corrections::tropo::ZenithDelay;
 use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
-use crate::iono::IonoCoefficients;
 use crate::linalg::{add, Cholesky6, Mat6};
 use crate::sat::{System, SPEED_OF_LIGHT};
 use crate::solution::{Dop, Fix, FixKind, IonoCorrection, NoFixReason};
-use crate::tropo::ZenithDelay;
 use libm::{sin, sqrt};
 
 /// Lowest sin(elevation) used in the σ model, so a satellite at the horizon (reachable with a

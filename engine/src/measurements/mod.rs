@@ -1,0 +1,3 @@
+//! Measurements as the receiver reports them.
+
+pub mod observation;

@@ -1,0 +1,3 @@
+//! The snapshot solution: one epoch's weighted least squares, DOP and residuals.
+
+pub(crate) mod wls;
