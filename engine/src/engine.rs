@@ -28,6 +28,20 @@ pub enum EpochError {
     },
 }
 
+/// Why an input besides an epoch or an ephemeris was refused (the engine keeps what it had).
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[non_exhaustive]
+pub enum InputError {
+    /// A value is NaN or infinite.
+    NotFinite,
+    /// A position's ellipsoidal height lies outside the configured span.
+    HeightOutOfSpan {
+        /// The height found, m.
+        height_m: f64,
+    },
+}
+
 /// The last 3-D fix, kept to seed the next solution and to hold height for a 2-D fix.
 #[derive(Clone, Copy, Debug, PartialEq)]
 struct Anchor {
@@ -87,35 +101,42 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         self.store.ingest(eph)
     }
 
-    /// Sets the broadcast ionosphere coefficients. Non-finite coefficients are ignored
-    /// (the previous ones stay) and `false` is returned.
-    pub fn set_ionosphere(&mut self, iono: IonoCoefficients) -> bool {
-        if iono.is_finite() {
-            self.iono = Some(iono);
+    /// Sets the broadcast ionosphere coefficients.
+    ///
+    /// # Errors
+    /// [`InputError::NotFinite`] for a NaN or infinite coefficient; the previous
+    /// coefficients stay.
+    pub fn set_ionosphere(&mut self, iono: IonoCoefficients) -> Result<(), InputError> {
+        if !iono.is_finite() {
+            return Err(InputError::NotFinite);
         }
-        iono.is_finite()
+        self.iono = Some(iono);
+        Ok(())
     }
 
     /// Starts the next solution from a position the tracker remembers (kept in retained RAM
     /// or flash across a power cycle) instead of the Earth's centre: fewer iterations on the
     /// first epoch, and its height can hold a 2-D fix for `altitude_hold_max_age_s` after
-    /// `time`. A non-finite position, or one whose height is outside the configured span, is
-    /// refused (`false`).
-    pub fn seed_position(&mut self, ecef_m: [f64; 3], time: GnssTime) -> bool {
+    /// `time`.
+    ///
+    /// # Errors
+    /// [`InputError::NotFinite`] for a non-finite position, [`InputError::HeightOutOfSpan`]
+    /// for one whose height is outside the configured span; nothing is changed.
+    pub fn seed_position(&mut self, ecef_m: [f64; 3], time: GnssTime) -> Result<(), InputError> {
         if !ecef_m.iter().all(|v| v.is_finite()) {
-            return false;
+            return Err(InputError::NotFinite);
         }
         let height_m = crate::frames::Geodetic::from_ecef(ecef_m).height_m;
         let (lo, hi) = self.config.height_span_m;
         if !(lo..=hi).contains(&height_m) {
-            return false;
+            return Err(InputError::HeightOutOfSpan { height_m });
         }
         self.anchor = Some(Anchor {
             time,
             ecef_m,
             height_m,
         });
-        true
+        Ok(())
     }
 
     /// Forgets the time of the last epoch and the last fix, e.g. before replaying again.

@@ -122,7 +122,9 @@ fn main() -> ! {
                 }
             }
             Ok(Message::Ionosphere(i)) => {
-                engine.set_ionosphere(i);
+                if let Err(err) = engine.set_ionosphere(i) {
+                    defmt::warn!("ionosphere refused: {}", err);
+                }
             }
             Ok(Message::Epoch(epoch)) => {
                 let t0 = cost::ticks();

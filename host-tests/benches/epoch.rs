@@ -45,7 +45,7 @@ fn bench(c: &mut Criterion) {
         for e in &cons.ephemerides {
             engine.ingest_ephemeris(*e).unwrap();
         }
-        engine.set_ionosphere(iono);
+        engine.set_ionosphere(iono).expect("finite coefficients");
         // Warm start: the previous fix seeds the next, as on a tracker between wake-ups.
         assert!(engine.process(&first).unwrap().fix().is_some());
         group.bench_with_input(BenchmarkId::from_parameter(n), &n, |b, _| {

@@ -192,8 +192,10 @@ pub fn replay_with_progress(
         _ => None,
     };
     let mut engine = Box::new(ReplayEngine::new(config));
+    // The navigation reader parses every coefficient as a finite number, so this cannot be
+    // refused; were it, the fixes would say `IonoCorrection::None`.
     if let Some(k) = iono {
-        engine.set_ionosphere(k);
+        let _ = engine.set_ionosphere(k);
     }
     let header = reader.header.clone();
     let mut next_nav = 0;

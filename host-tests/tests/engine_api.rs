@@ -29,7 +29,7 @@ fn a_remembered_position_shortens_the_first_solution() {
     // Remembered from yesterday, 300 m away.
     let remembered = LocalFrame::at_ecef(rx.position);
     let p = [0, 1, 2].map(|k| rx.position[k] + 300.0 * remembered.axes[0][k]);
-    assert!(warm.seed_position(p, t0.add_seconds(-86_400.0)));
+    warm.seed_position(p, t0.add_seconds(-86_400.0)).unwrap();
     let w = *warm.process(&epoch).unwrap().fix().unwrap();
     assert!(
         w.iterations < c.iterations,
@@ -42,6 +42,12 @@ fn a_remembered_position_shortens_the_first_solution() {
         assert!((w.ecef_m[k] - c.ecef_m[k]).abs() < 1e-3);
     }
     // Nonsense is refused.
-    assert!(!warm.seed_position([f64::NAN, 0.0, 0.0], t0));
-    assert!(!warm.seed_position([0.0, 0.0, 0.0], t0));
+    assert_eq!(
+        warm.seed_position([f64::NAN, 0.0, 0.0], t0),
+        Err(trackfix_engine::InputError::NotFinite)
+    );
+    assert!(matches!(
+        warm.seed_position([0.0, 0.0, 0.0], t0),
+        Err(trackfix_engine::InputError::HeightOutOfSpan { .. })
+    ));
 }

@@ -35,7 +35,9 @@ pub fn run_mutated(
 ) -> Result<Vec<EpochRecord>, String> {
     let gen = Generator::new(spec)?.with_mutation(mutation);
     let mut engine: Box<Engine<GEN_N, SCENARIO_EPH>> = Box::new(Engine::new(config));
-    engine.set_ionosphere(SCENARIO_IONO);
+    engine
+        .set_ionosphere(SCENARIO_IONO)
+        .map_err(|e| format!("scenario ionosphere: {e}"))?;
     let mut out = Vec::new();
     for g in gen {
         for e in &g.new_ephemerides {

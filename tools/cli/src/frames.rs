@@ -139,7 +139,8 @@ pub fn run_host<const N: usize>(stream: &[u8]) -> Vec<String> {
                     let _ = engine.ingest_ephemeris(e);
                 }
                 Ok(Message::Ionosphere(i)) => {
-                    engine.set_ionosphere(i);
+                    // Refused coefficients leave the model off, as on the target.
+                    let _ = engine.set_ionosphere(i);
                 }
                 Ok(Message::Epoch(e)) => {
                     lines.push(line(k, &e, engine.process(&e).ok().map(|s| s.outcome)));
