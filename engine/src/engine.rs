@@ -1,7 +1,7 @@
 //! The engine: owns the ephemeris store, the configuration and what it remembers between
 //! epochs, all in fixed memory. Time is passed in with each epoch; nothing reads a clock.
 
-use crate::config::Config;
+use crate::config::{Config, ConfigError};
 use crate::corrections::iono::IonoCoefficients;
 use crate::measurements::observation::{Epoch, Observation};
 use crate::nav::ephemeris::{BroadcastEphemeris, EphemerisError};
@@ -63,16 +63,28 @@ pub struct Engine<const N: usize, const EPH: usize> {
 }
 
 impl<const N: usize, const EPH: usize> Engine<N, EPH> {
-    /// An engine with `config`, no ephemerides and no history.
-    pub const fn new(config: Config) -> Self {
+    /// An engine with the default configuration, no ephemerides and no history; `const`,
+    /// so it can live in a `static`.
+    pub const fn with_defaults() -> Self {
         const { assert!(N >= 4, "an epoch must hold at least four observations") };
         Engine {
-            config,
+            config: Config::DEFAULT,
             store: EphemerisStore::new(),
             iono: None,
             last_time: None,
             anchor: None,
         }
+    }
+
+    /// An engine with `config`, no ephemerides and no history.
+    ///
+    /// # Errors
+    /// The first field of `config` outside its documented range.
+    pub fn new(config: Config) -> Result<Self, ConfigError> {
+        config.validate()?;
+        let mut engine = Self::with_defaults();
+        engine.config = config;
+        Ok(engine)
     }
 
     /// The configuration in force.
@@ -81,8 +93,14 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
     }
 
     /// Replaces the configuration (history and ephemerides are kept).
-    pub fn set_config(&mut self, config: Config) {
+    ///
+    /// # Errors
+    /// The first field of `config` outside its documented range; the configuration in force
+    /// stays.
+    pub fn set_config(&mut self, config: Config) -> Result<(), ConfigError> {
+        config.validate()?;
         self.config = config;
+        Ok(())
     }
 
     /// The ephemeris store.
@@ -127,7 +145,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             return Err(InputError::NotFinite);
         }
         let height_m = crate::frames::Geodetic::from_ecef(ecef_m).height_m;
-        let (lo, hi) = self.config.height_span_m;
+        let (lo, hi) = self.config.snapshot.height_span_m;
         if !(lo..=hi).contains(&height_m) {
             return Err(InputError::HeightOutOfSpan { height_m });
         }
@@ -190,7 +208,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         }
 
         let hold_height_m = self.anchor.and_then(|a| {
-            (epoch.time.seconds_since(a.time) <= self.config.altitude_hold_max_age_s)
+            (epoch.time.seconds_since(a.time) <= self.config.snapshot.altitude_hold_max_age_s)
                 .then_some(a.height_m)
         });
         let setup = Setup {
@@ -256,14 +274,17 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         if !cfg.uses(system) {
             return Err(SatStatus::SystemDisabled);
         }
-        if cfg.signal(system) != Some(obs.signal) {
+        if cfg.signal(system) != obs.signal {
             return Err(SatStatus::SignalNotUsed);
         }
         let pr = obs.pseudorange_m;
         if pr == 0.0 {
             return Err(SatStatus::NotMeasured);
         }
-        if !pr.is_finite() || !(cfg.pseudorange_span_m.0..=cfg.pseudorange_span_m.1).contains(&pr) {
+        if !pr.is_finite()
+            || !(cfg.measurements.pseudorange_span_m.0..=cfg.measurements.pseudorange_span_m.1)
+                .contains(&pr)
+        {
             return Err(SatStatus::BadPseudorange);
         }
         if earlier.any(|e| e.sat == obs.sat && e.signal == obs.signal) {
@@ -271,7 +292,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         }
         let cn0 = obs.cn0_dbhz.filter(|c| c.is_finite() && *c > 0.0);
         if let Some(c) = cn0 {
-            if c < cfg.cn0_mask_dbhz {
+            if c < cfg.measurements.cn0_mask_dbhz {
                 return Err(SatStatus::WeakSignal);
             }
         }
@@ -281,7 +302,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         }
         let tau = pr / SPEED_OF_LIGHT;
         let dt_toe = t_rx.seconds_since(held.toe) - tau;
-        if dt_toe.abs() > cfg.max_ephemeris_age_s {
+        if dt_toe.abs() > cfg.nav.max_ephemeris_age_s {
             return Err(SatStatus::Stale);
         }
         let dt_toc = t_rx.seconds_since(held.toc) - tau;
@@ -293,7 +314,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         // σ grows as √(10^(deficit/10)) = 10^(deficit/20); single precision is ample for a
         // weight.
         let cn0_factor = cn0.map_or(1.0, |c| {
-            let deficit = (cfg.cn0_reference_dbhz - c).max(0.0);
+            let deficit = (cfg.snapshot.cn0_reference_dbhz - c).max(0.0);
             libm::powf(10.0, deficit / 20.0)
         });
         Ok(Candidate {

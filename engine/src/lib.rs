@@ -8,7 +8,7 @@
 //!
 //! ```
 //! use trackfix_engine::{Config, Engine, Epoch, GnssTime};
-//! let mut engine: Engine<12, 32> = Engine::new(Config::default());
+//! let mut engine: Engine<12, 32> = Engine::new(Config::default()).unwrap();
 //! let epoch: Epoch<12> = Epoch::new(GnssTime::from_week_tow(2111, 345_600.0).unwrap());
 //! let solution = engine.process(&epoch).unwrap();
 //! assert!(solution.fix().is_none()); // no measurements, no fix, and it says why

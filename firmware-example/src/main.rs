@@ -21,7 +21,7 @@ use cortex_m_semihosting::debug;
 use power::{DelaySleep, LowPower, NoDelay};
 use source::{MeasurementSource, SourceError};
 use trackfix_engine::wire::{buffer_for, Message};
-use trackfix_engine::{Config, Engine, Epoch, FixOutcome, Solution, SPEED_OF_LIGHT};
+use trackfix_engine::{Engine, Epoch, FixOutcome, Solution, SPEED_OF_LIGHT};
 use uart::ReplayUart;
 
 /// Observations per epoch.
@@ -97,7 +97,7 @@ fn main() -> ! {
         exit(false)
     };
     let _syst = cost::start(cp.SYST);
-    let Some(engine) = cortex_m::singleton!(: Engine<N, EPH> = Engine::new(Config::default()))
+    let Some(engine) = cortex_m::singleton!(: Engine<N, EPH> = Engine::with_defaults())
     else {
         exit(false)
     };

@@ -40,8 +40,8 @@ fn bench(c: &mut Criterion) {
         let mut next = first.clone();
         next.time = t0.add_seconds(1.0);
         let mut cfg = Config::default();
-        cfg.elevation_mask_deg = 5.0;
-        let mut engine: Engine<32, 96> = Engine::new(cfg);
+        cfg.snapshot.elevation_mask_deg = 5.0;
+        let mut engine: Engine<32, 96> = Engine::new(cfg).expect("a valid configuration");
         for e in &cons.ephemerides {
             engine.ingest_ephemeris(*e).unwrap();
         }

@@ -3,7 +3,7 @@
 //! Run: `cargo bench -p trackfix-harness --bench harness`.
 
 use criterion::{criterion_group, criterion_main, Criterion, Throughput};
-use trackfix_engine::Config;
+use trackfix_engine::{Config, System};
 use trackfix_harness::data::data_dir;
 use trackfix_harness::replay::{dataset, replay};
 use trackfix_harness::scenario::{parse, run};
@@ -28,8 +28,7 @@ fn bench(c: &mut Criterion) {
             &["esbc_2020177/ESBC00DNK_R_20201770000_01D_MN.rnx"],
             None,
         );
-        let mut cfg = Config::default();
-        cfg.systems = [true, true, false];
+        let cfg = Config::default().with_systems(&[System::Gps, System::Galileo]);
         g.throughput(Throughput::Elements(240));
         g.bench_function("recorded ESBC replay, epochs", |b| {
             b.iter(|| replay(&ds, cfg).unwrap())

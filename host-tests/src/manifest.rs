@@ -126,15 +126,8 @@ impl Manifest {
 
 /// The engine configuration for a row: defaults with only the listed systems on.
 pub fn config_for(systems: &[crate::scenario::spec::SystemName]) -> Config {
-    let mut c = Config::default();
-    c.systems = [false; 3];
-    for s in systems {
-        let sys: trackfix_engine::System = (*s).into();
-        if let Some(on) = c.systems.get_mut(sys.index()) {
-            *on = true;
-        }
-    }
-    c
+    let systems: Vec<trackfix_engine::System> = systems.iter().map(|s| (*s).into()).collect();
+    Config::default().with_systems(&systems)
 }
 
 impl ScenarioRow {

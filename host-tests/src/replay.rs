@@ -191,7 +191,11 @@ pub fn replay_with_progress(
         Some(Truth::Marker(m)) => Some(antenna_position(*m, reader.header.antenna_delta_hen)),
         _ => None,
     };
-    let mut engine = Box::new(ReplayEngine::new(config));
+    let mut engine = Box::new(ReplayEngine::new(config).map_err(|e| RinexError {
+        file: ds.obs.clone(),
+        line: 0,
+        what: format!("engine configuration refused: {e}"),
+    })?);
     // The navigation reader parses every coefficient as a finite number, so this cannot be
     // refused; were it, the fixes would say `IonoCorrection::None`.
     if let Some(k) = iono {

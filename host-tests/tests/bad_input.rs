@@ -17,7 +17,7 @@ fn t0() -> GnssTime {
 
 fn setup() -> (TestEngine, Epoch<40>, Vec<BroadcastEphemeris>) {
     let cons = constellation(11, t0(), &[System::Gps]);
-    let mut e = TestEngine::new(Config::default());
+    let mut e = TestEngine::new(Config::default()).unwrap();
     for eph in &cons.ephemerides {
         e.ingest_ephemeris(*eph).unwrap();
     }
@@ -150,9 +150,8 @@ fn unhealthy_and_stale_ephemerides() {
 #[test]
 fn disabled_system_is_named() {
     let (mut engine, mut epoch, _) = setup();
-    let mut cfg = Config::default();
-    cfg.systems = [true, true, false];
-    engine.set_config(cfg);
+    let cfg = Config::default().with_systems(&[System::Gps, System::Galileo]);
+    engine.set_config(cfg).unwrap();
     epoch.obs[0].sat = SatId {
         system: System::Beidou,
         prn: 7,
@@ -304,7 +303,7 @@ proptest! {
         prop_assert_eq!(sol.sats.len(), prs.len());
         if let Some(f) = sol.fix() {
             prop_assert!(f.ecef_m.iter().all(|v| v.is_finite()));
-            let span = Config::default().height_span_m;
+            let span = Config::default().snapshot.height_span_m;
             prop_assert!(f.geodetic.height_m >= span.0 && f.geodetic.height_m <= span.1);
         }
     }

@@ -1,7 +1,7 @@
 //! Engine API behaviour a tracker relies on, on synthetic data.
 
 use rand::SeedableRng;
-use trackfix_engine::{Config, Engine, Geodetic, GnssTime, LocalFrame, System};
+use trackfix_engine::{Engine, Geodetic, GnssTime, LocalFrame, System};
 use trackfix_harness::synth::{constellation, observe, StaticReceiver};
 
 #[test]
@@ -17,7 +17,7 @@ fn a_remembered_position_shortens_the_first_solution() {
     let mut rng = rand::rngs::StdRng::seed_from_u64(8);
     let epoch = observe::<40>(&rx, &cons, t0, 0.5, &mut rng);
     let fresh = || {
-        let mut e: Box<Engine<40, 64>> = Box::new(Engine::new(Config::default()));
+        let mut e: Box<Engine<40, 64>> = Box::new(Engine::with_defaults());
         for eph in &cons.ephemerides {
             e.ingest_ephemeris(*eph).unwrap();
         }

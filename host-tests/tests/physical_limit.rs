@@ -3,6 +3,7 @@
 
 use nalgebra::{DMatrix, Matrix3};
 use rand::SeedableRng;
+use trackfix_engine::config::{IonoModel, TropoModel};
 use trackfix_engine::{
     Config, Engine, FixKind, FixOutcome, Geodetic, GnssTime, LocalFrame, NoFixReason, System,
     SPEED_OF_LIGHT,
@@ -28,11 +29,11 @@ fn receiver() -> StaticReceiver {
 /// Equal weights σ and no atmosphere: the model matches the data exactly.
 fn matched_config(sigma: f64) -> Config {
     let mut c = Config::default();
-    c.ionosphere = false;
-    c.troposphere = false;
-    c.sigma_floor_m = sigma;
-    c.sigma_elevation_m = 0.0;
-    c.elevation_mask_deg = 5.0;
+    c.corrections.ionosphere = IonoModel::Off;
+    c.corrections.troposphere = TropoModel::Off;
+    c.snapshot.sigma_floor_m = sigma;
+    c.snapshot.sigma_elevation_m = 0.0;
+    c.snapshot.elevation_mask_deg = 5.0;
     c
 }
 
@@ -50,7 +51,7 @@ fn engine_with(
             &[System::Gps][..]
         },
     );
-    let mut e = TestEngine::new(cfg);
+    let mut e = TestEngine::new(cfg).unwrap();
     for eph in &cons.ephemerides {
         e.ingest_ephemeris(*eph).unwrap();
     }

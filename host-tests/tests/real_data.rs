@@ -45,15 +45,11 @@ fn gate(name: &str, a: &Accuracy, m: &Measured) {
 }
 
 fn gps_only() -> Config {
-    let mut c = Config::default();
-    c.systems = [true, false, false];
-    c
+    Config::default().with_systems(&[System::Gps])
 }
 
 fn gps_galileo() -> Config {
-    let mut c = Config::default();
-    c.systems = [true, true, false];
-    c
+    Config::default().with_systems(&[System::Gps, System::Galileo])
 }
 
 fn report(name: &str, a: &Accuracy) {
@@ -218,7 +214,7 @@ fn nya1_high_latitude_gps_galileo_beidou() {
         }
         assert!(a.fixes + 1 >= a.epochs);
         gate(name, &a, &measured);
-        if cfg.systems == [true, true, true] {
+        if cfg.uses(System::Galileo) && cfg.uses(System::Beidou) {
             // Every system contributes: a wrong BeiDou week or time offset would drop
             // BeiDou silently and barely move this fix. From the tenth epoch (5 min) on:
             // the day's navigation files begin at 00:00, so the first records a receiver

@@ -16,7 +16,7 @@
 //! azimuth/elevation, Klobuchar and the troposphere mapping; per iteration one 6×6
 //! Cholesky; once per epoch one geodetic conversion and the standard atmosphere.
 
-use crate::config::Config;
+use crate::config::{Config, IonoModel, TropoModel};
 use crate::corrections::iono::IonoCoefficients;
 use crate::corrections::tropo::ZenithDelay;
 use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
@@ -96,11 +96,13 @@ pub(crate) fn solve(
     out: &mut [Outcome],
 ) -> Result<Fix, NoFixReason> {
     let cfg = setup.config;
-    let sin_mask = sin(cfg.elevation_mask_deg.to_radians());
+    let sin_mask = sin(cfg.snapshot.elevation_mask_deg.to_radians());
     let mut pos = setup.seed;
     let mut clk = [0.0f64; 3];
     let mut corrections_on = norm(pos) > 6.0e6;
-    let iono = setup.iono.filter(|c| cfg.ionosphere && c.is_finite());
+    let iono = setup
+        .iono
+        .filter(|c| cfg.corrections.ionosphere == IonoModel::Broadcast && c.is_finite());
     let mut iterations = 0u8;
     let mut corr_at: Option<[f64; 3]> = None;
     let mut geo = Geodetic::default();
@@ -116,7 +118,7 @@ pub(crate) fn solve(
             frame = LocalFrame::new(pos, &geo);
             corr_at = Some(pos);
         }
-        let zenith = (refresh && cfg.troposphere)
+        let zenith = (refresh && cfg.corrections.troposphere == TropoModel::StandardAtmosphere)
             .then(|| ZenithDelay::standard_atmosphere(geo.lat_rad, geo.height_m));
         let mut normal: Mat6 = [[0.0; 6]; 6];
         let mut geometry: Mat6 = [[0.0; 6]; 6];
@@ -162,7 +164,8 @@ pub(crate) fn solve(
                     delay += z.slant_m(up);
                 }
                 o.delay_m = delay;
-                o.sigma_m = (cfg.sigma_floor_m + cfg.sigma_elevation_m / up.max(MIN_SIN_EL))
+                o.sigma_m = (cfg.snapshot.sigma_floor_m
+                    + cfg.snapshot.sigma_elevation_m / up.max(MIN_SIN_EL))
                     * f64::from(c.cn0_factor);
             } else if !corrections_on {
                 o.delay_m = 0.0;
@@ -208,7 +211,8 @@ pub(crate) fn solve(
                     // The held height needs the exact height at this iteration's position.
                     let here = Geodetic::from_ecef(pos);
                     let up = LocalFrame::new(pos, &here).axes[2];
-                    let w = 1.0 / (cfg.altitude_hold_sigma_m * cfg.altitude_hold_sigma_m);
+                    let w = 1.0
+                        / (cfg.snapshot.altitude_hold_sigma_m * cfg.snapshot.altitude_hold_sigma_m);
                     let v = h_hold - here.height_m;
                     for (i, a) in up.iter().enumerate() {
                         for (j, b) in up.iter().enumerate() {
@@ -247,7 +251,7 @@ pub(crate) fn solve(
         let step = norm([d[0], d[1], d[2]]);
         // After a Gauss–Newton step of length s the range linearisation leaves an error of
         // about s²/(2ρ) with ρ ≥ 19,000 km: converged when that is below the tolerance.
-        if corrections_on && step * step / (2.0 * MIN_RANGE_M) < cfg.convergence_m {
+        if corrections_on && step * step / (2.0 * MIN_RANGE_M) < cfg.snapshot.convergence_m {
             let dpos = [d[0], d[1], d[2]];
             return finish(
                 &FinishInput {
@@ -271,7 +275,7 @@ pub(crate) fn solve(
         if !corrections_on && step < 1_000.0 && norm(pos) > 5.0e6 {
             corrections_on = true;
         }
-        if iterations >= cfg.max_iterations {
+        if iterations >= cfg.snapshot.max_iterations {
             return Err(NoFixReason::NoConvergence);
         }
     }
@@ -298,7 +302,9 @@ fn finish(
     out: &mut [Outcome],
 ) -> Result<Fix, NoFixReason> {
     let geodetic = Geodetic::from_ecef(f.pos);
-    if !(f.cfg.height_span_m.0..=f.cfg.height_span_m.1).contains(&geodetic.height_m) {
+    if !(f.cfg.snapshot.height_span_m.0..=f.cfg.snapshot.height_span_m.1)
+        .contains(&geodetic.height_m)
+    {
         return Err(NoFixReason::ImplausiblePosition);
     }
     let frame = LocalFrame::new(f.pos, &geodetic);

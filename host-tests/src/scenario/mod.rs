@@ -34,7 +34,8 @@ pub fn run_mutated(
     mutation: Mutation,
 ) -> Result<Vec<EpochRecord>, String> {
     let gen = Generator::new(spec)?.with_mutation(mutation);
-    let mut engine: Box<Engine<GEN_N, SCENARIO_EPH>> = Box::new(Engine::new(config));
+    let mut engine: Box<Engine<GEN_N, SCENARIO_EPH>> =
+        Box::new(Engine::new(config).map_err(|e| format!("engine configuration: {e}"))?);
     engine
         .set_ionosphere(SCENARIO_IONO)
         .map_err(|e| format!("scenario ionosphere: {e}"))?;

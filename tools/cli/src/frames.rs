@@ -6,7 +6,7 @@ use std::path::Path;
 use trackfix_engine::wire::{
     buffer_for, encode_ephemeris, encode_epoch, encode_iono, FrameDecoder, Message,
 };
-use trackfix_engine::{Config, Engine, Epoch, FixOutcome};
+use trackfix_engine::{Engine, Epoch, FixOutcome};
 use trackfix_harness::replay::{load_nav, to_engine_epoch};
 use trackfix_harness::rinex::ObsReader;
 use trackfix_harness::scenario::generate::{Generator, SCENARIO_IONO};
@@ -125,7 +125,7 @@ pub fn synthetic(counts: &[usize], each: usize) -> Result<Vec<u8>, String> {
 /// firmware's format.
 pub fn run_host<const N: usize>(stream: &[u8]) -> Vec<String> {
     let mut lines = Vec::new();
-    let mut engine: Box<Engine<N, FW_EPH>> = Box::new(Engine::new(Config::default()));
+    let mut engine: Box<Engine<N, FW_EPH>> = Box::new(Engine::with_defaults());
     // A larger buffer than the firmware's decodes the same frames the same way.
     let mut dec: FrameDecoder<{ buffer_for(64) }> = FrameDecoder::new();
     let mut k = 0u32;

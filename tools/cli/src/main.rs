@@ -13,7 +13,7 @@ use indicatif::{ProgressBar, ProgressStyle};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 use std::time::{Duration, Instant};
-use trackfix_engine::Config;
+use trackfix_engine::{Config, System};
 use trackfix_harness::manifest::{splice, table, Manifest, MANIFEST};
 use trackfix_harness::metrics::Summary;
 use trackfix_harness::record::EpochRecord;
@@ -290,12 +290,16 @@ fn replay_cmd(
     out: Option<&Path>,
 ) -> Result<(), String> {
     println!("{CAUTION}");
-    let mut cfg = Config::default();
-    cfg.systems = [
-        systems.contains('g'),
-        systems.contains('e'),
-        systems.contains('c'),
-    ];
+    let wanted: Vec<System> = [
+        ('g', System::Gps),
+        ('e', System::Galileo),
+        ('c', System::Beidou),
+    ]
+    .into_iter()
+    .filter(|(letter, _)| systems.contains(*letter))
+    .map(|(_, s)| s)
+    .collect();
+    let cfg = Config::default().with_systems(&wanted);
     let truth = match (truth, truth_csv) {
         (Some(m), _) => Some(Truth::Marker(m)),
         (None, Some(p)) => Some(Truth::Trajectory(read_truth_csv(&p)?)),

@@ -1,0 +1,269 @@
+//! The per-stage parts of [`super::Config`], each with its defaults and documented ranges
+//! (the ranges are checked by [`super::Config::validate`]).
+
+use crate::sat::{Signal, System};
+
+/// A set of systems, by name.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(default, deny_unknown_fields))]
+pub struct SystemSet {
+    /// GPS.
+    pub gps: bool,
+    /// Galileo.
+    pub galileo: bool,
+    /// BeiDou.
+    pub beidou: bool,
+}
+
+impl SystemSet {
+    /// Every system.
+    pub const ALL: SystemSet = SystemSet {
+        gps: true,
+        galileo: true,
+        beidou: true,
+    };
+
+    /// Exactly the listed systems.
+    pub fn only(systems: &[System]) -> Self {
+        SystemSet {
+            gps: systems.contains(&System::Gps),
+            galileo: systems.contains(&System::Galileo),
+            beidou: systems.contains(&System::Beidou),
+        }
+    }
+
+    /// Whether `system` is in the set.
+    pub const fn contains(&self, system: System) -> bool {
+        match system {
+            System::Gps => self.gps,
+            System::Galileo => self.galileo,
+            System::Beidou => self.beidou,
+        }
+    }
+
+    /// Whether no system is in the set.
+    pub const fn is_empty(&self) -> bool {
+        !(self.gps || self.galileo || self.beidou)
+    }
+}
+
+impl Default for SystemSet {
+    fn default() -> Self {
+        SystemSet::ALL
+    }
+}
+
+/// The code signal used for each system (single frequency).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(default, deny_unknown_fields))]
+pub struct SystemSignals {
+    /// GPS signal. Default L1 C/A.
+    pub gps: Signal,
+    /// Galileo signal. Default E1.
+    pub galileo: Signal,
+    /// BeiDou signal. Default B1I.
+    pub beidou: Signal,
+}
+
+impl SystemSignals {
+    /// L1 C/A, E1 and B1I: the signals every tracker-class receiver tracks.
+    pub const DEFAULT: SystemSignals = SystemSignals {
+        gps: Signal::GpsL1Ca,
+        galileo: Signal::GalE1,
+        beidou: Signal::BdsB1I,
+    };
+
+    /// The signal of `system`.
+    pub const fn of(&self, system: System) -> Signal {
+        match system {
+            System::Gps => self.gps,
+            System::Galileo => self.galileo,
+            System::Beidou => self.beidou,
+        }
+    }
+}
+
+impl Default for SystemSignals {
+    fn default() -> Self {
+        SystemSignals::DEFAULT
+    }
+}
+
+/// Screening of the measurements.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(default, deny_unknown_fields))]
+#[non_exhaustive]
+pub struct MeasurementConfig {
+    /// Systems the engine uses. Default all three; at least one.
+    pub systems: SystemSet,
+    /// The code signal used for each system; each must belong to its system.
+    pub signals: SystemSignals,
+    /// Observations below this C/N0 are not used, dB-Hz. Default 20 (tracking threshold of
+    /// a typical mass-market receiver, common practice). Range 0–60.
+    pub cn0_mask_dbhz: f32,
+    /// Pseudoranges outside this span are bad input, metres. Default 1.5e7–5.0e7 m: the
+    /// closest MEO satellite is ≥ 19,000 km away, GEO ≤ 42,000 km, leaving ±0.8e7 m for a
+    /// receiver clock offset of up to ±25 ms. Range: 0 < min < max ≤ 1e8 m.
+    pub pseudorange_span_m: (f64, f64),
+}
+
+impl MeasurementConfig {
+    /// The defaults.
+    pub const DEFAULT: MeasurementConfig = MeasurementConfig {
+        systems: SystemSet::ALL,
+        signals: SystemSignals::DEFAULT,
+        cn0_mask_dbhz: 20.0,
+        pseudorange_span_m: (1.5e7, 5.0e7),
+    };
+}
+
+impl Default for MeasurementConfig {
+    fn default() -> Self {
+        MeasurementConfig::DEFAULT
+    }
+}
+
+/// The ephemeris store.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(default, deny_unknown_fields))]
+#[non_exhaustive]
+pub struct NavConfig {
+    /// An ephemeris more than this far from its toe is stale, seconds. Default 7,200 s (half
+    /// the 4-hour GPS fit interval of IS-GPS-200 §20.3.4.4 either side of toe). Range
+    /// 60–86,400 s.
+    pub max_ephemeris_age_s: f64,
+}
+
+impl NavConfig {
+    /// The defaults.
+    pub const DEFAULT: NavConfig = NavConfig {
+        max_ephemeris_age_s: 7_200.0,
+    };
+}
+
+impl Default for NavConfig {
+    fn default() -> Self {
+        NavConfig::DEFAULT
+    }
+}
+
+/// Which ionosphere correction a single-frequency measurement takes.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
+#[non_exhaustive]
+pub enum IonoModel {
+    /// No correction.
+    Off,
+    /// The broadcast (Klobuchar) model, when coefficients are known.
+    #[default]
+    Broadcast,
+}
+
+/// Which troposphere correction the measurements take.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
+#[non_exhaustive]
+pub enum TropoModel {
+    /// No correction.
+    Off,
+    /// Saastamoinen zenith delays in a standard atmosphere, MOPS mapping.
+    #[default]
+    StandardAtmosphere,
+}
+
+/// Atmospheric corrections.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(default, deny_unknown_fields))]
+#[non_exhaustive]
+pub struct CorrectionConfig {
+    /// Ionosphere. Default the broadcast model.
+    pub ionosphere: IonoModel,
+    /// Troposphere. Default the standard atmosphere.
+    pub troposphere: TropoModel,
+}
+
+impl CorrectionConfig {
+    /// The defaults.
+    pub const DEFAULT: CorrectionConfig = CorrectionConfig {
+        ionosphere: IonoModel::Broadcast,
+        troposphere: TropoModel::StandardAtmosphere,
+    };
+}
+
+impl Default for CorrectionConfig {
+    fn default() -> Self {
+        CorrectionConfig::DEFAULT
+    }
+}
+
+/// The snapshot (weighted least-squares) solution.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(default, deny_unknown_fields))]
+#[non_exhaustive]
+pub struct SnapshotConfig {
+    /// Satellites below this elevation are not used, degrees. Default 10° (common practice:
+    /// below it multipath and troposphere errors grow fast). Range 0–60°.
+    pub elevation_mask_deg: f64,
+    /// Elevation weighting σ = `sigma_floor_m` + `sigma_elevation_m`/sin E, metres. Defaults
+    /// 0.3 m + 0.3 m (a textbook model for code on L1). Range: floor 0.01–100 m.
+    pub sigma_floor_m: f64,
+    /// See `sigma_floor_m`. Range 0–100 m.
+    pub sigma_elevation_m: f64,
+    /// C/N0 at and above which no C/N0 penalty applies, dB-Hz. Below it σ grows as
+    /// √(10^((ref − C/N0)/10)) (code noise variance scales with 1/(C/N0)). Default 40.
+    /// Range 20–60.
+    pub cn0_reference_dbhz: f32,
+    /// Iteration limit. Default 10. Range 1–50.
+    pub max_iterations: u8,
+    /// Converged when the last position update of length s leaves a linearisation error
+    /// s²/(2·19,000 km) below this, metres (for 1 mm: steps under about 190 m). Default
+    /// 1e-3 m. Range 1e-6–10 m.
+    pub convergence_m: f64,
+    /// A fix with an ellipsoidal height outside this span is refused, metres. Default
+    /// −1,000…+20,000 m (ground, sea and aircraft up to balloon heights). Range: min < max,
+    /// within −12,000…100,000 m.
+    pub height_span_m: (f64, f64),
+    /// Standard deviation of the altitude constraint of a 2-D fix, metres. Default 5 m.
+    /// Range 0.1–1,000 m.
+    pub altitude_hold_sigma_m: f64,
+    /// How long the last 3-D height stays usable for a 2-D fix, seconds. Default 600 s.
+    /// Range 0–86,400 s.
+    pub altitude_hold_max_age_s: f64,
+}
+
+impl SnapshotConfig {
+    /// The defaults.
+    pub const DEFAULT: SnapshotConfig = SnapshotConfig {
+        elevation_mask_deg: 10.0,
+        sigma_floor_m: 0.3,
+        sigma_elevation_m: 0.3,
+        cn0_reference_dbhz: 40.0,
+        max_iterations: 10,
+        convergence_m: 1e-3,
+        height_span_m: (-1_000.0, 20_000.0),
+        altitude_hold_sigma_m: 5.0,
+        altitude_hold_max_age_s: 600.0,
+    };
+}
+
+impl Default for SnapshotConfig {
+    fn default() -> Self {
+        SnapshotConfig::DEFAULT
+    }
+}

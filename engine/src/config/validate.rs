@@ -1,0 +1,175 @@
+//! [`Config::validate`]: every field against its documented range, the first one outside
+//! named in a typed error.
+
+use super::Config;
+use crate::sat::System;
+use core::fmt;
+
+/// What is wrong with a field.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[non_exhaustive]
+pub enum Problem {
+    /// NaN or infinite.
+    NotFinite,
+    /// Outside the documented range.
+    OutOfRange {
+        /// The value found.
+        value: f64,
+        /// Lowest allowed.
+        min: f64,
+        /// Highest allowed.
+        max: f64,
+    },
+    /// A span whose lower end is not below its upper end.
+    EmptySpan,
+    /// No system is enabled.
+    NoSystem,
+    /// The signal belongs to another system.
+    SignalOfOtherSystem,
+}
+
+/// A configuration the engine refuses: the field (its path in the TOML form, e.g.
+/// `snapshot.elevation_mask_deg`) and what is wrong with it.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct ConfigError {
+    /// The field.
+    pub field: &'static str,
+    /// What is wrong.
+    pub problem: Problem,
+}
+
+impl fmt::Display for ConfigError {
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        write!(f, "{}: ", self.field)?;
+        match self.problem {
+            Problem::NotFinite => f.write_str("not a finite number"),
+            Problem::OutOfRange { value, min, max } => {
+                write!(f, "{value} is outside {min}…{max}")
+            }
+            Problem::EmptySpan => f.write_str("the lower end is not below the upper end"),
+            Problem::NoSystem => f.write_str("no system is enabled"),
+            Problem::SignalOfOtherSystem => f.write_str("the signal belongs to another system"),
+        }
+    }
+}
+
+impl core::error::Error for ConfigError {}
+
+/// `value` within `min..=max`, finite.
+fn range(field: &'static str, value: f64, min: f64, max: f64) -> Result<(), ConfigError> {
+    let problem = if !value.is_finite() {
+        Problem::NotFinite
+    } else if !(min..=max).contains(&value) {
+        Problem::OutOfRange { value, min, max }
+    } else {
+        return Ok(());
+    };
+    Err(ConfigError { field, problem })
+}
+
+/// A span (lo, hi) with both ends within `min..=max` and lo < hi.
+fn span(field: &'static str, (lo, hi): (f64, f64), min: f64, max: f64) -> Result<(), ConfigError> {
+    range(field, lo, min, max)?;
+    range(field, hi, min, max)?;
+    if lo < hi {
+        Ok(())
+    } else {
+        Err(ConfigError {
+            field,
+            problem: Problem::EmptySpan,
+        })
+    }
+}
+
+impl Config {
+    /// Checks every field against its documented range (see each field's documentation).
+    ///
+    /// # Errors
+    /// The first field found outside its range, by name.
+    pub fn validate(&self) -> Result<(), ConfigError> {
+        let m = &self.measurements;
+        if m.systems.is_empty() {
+            return Err(ConfigError {
+                field: "measurements.systems",
+                problem: Problem::NoSystem,
+            });
+        }
+        for (system, field) in [
+            (System::Gps, "measurements.signals.gps"),
+            (System::Galileo, "measurements.signals.galileo"),
+            (System::Beidou, "measurements.signals.beidou"),
+        ] {
+            if m.signals.of(system).system() != system {
+                return Err(ConfigError {
+                    field,
+                    problem: Problem::SignalOfOtherSystem,
+                });
+            }
+        }
+        range(
+            "measurements.cn0_mask_dbhz",
+            f64::from(m.cn0_mask_dbhz),
+            0.0,
+            60.0,
+        )?;
+        span(
+            "measurements.pseudorange_span_m",
+            m.pseudorange_span_m,
+            1.0,
+            1e8,
+        )?;
+        range(
+            "nav.max_ephemeris_age_s",
+            self.nav.max_ephemeris_age_s,
+            60.0,
+            86_400.0,
+        )?;
+        let s = &self.snapshot;
+        range(
+            "snapshot.elevation_mask_deg",
+            s.elevation_mask_deg,
+            0.0,
+            60.0,
+        )?;
+        range("snapshot.sigma_floor_m", s.sigma_floor_m, 0.01, 100.0)?;
+        range(
+            "snapshot.sigma_elevation_m",
+            s.sigma_elevation_m,
+            0.0,
+            100.0,
+        )?;
+        range(
+            "snapshot.cn0_reference_dbhz",
+            f64::from(s.cn0_reference_dbhz),
+            20.0,
+            60.0,
+        )?;
+        range(
+            "snapshot.max_iterations",
+            f64::from(s.max_iterations),
+            1.0,
+            50.0,
+        )?;
+        range("snapshot.convergence_m", s.convergence_m, 1e-6, 10.0)?;
+        span(
+            "snapshot.height_span_m",
+            s.height_span_m,
+            -12_000.0,
+            100_000.0,
+        )?;
+        range(
+            "snapshot.altitude_hold_sigma_m",
+            s.altitude_hold_sigma_m,
+            0.1,
+            1_000.0,
+        )?;
+        range(
+            "snapshot.altitude_hold_max_age_s",
+            s.altitude_hold_max_age_s,
+            0.0,
+            86_400.0,
+        )
+    }
+}
