@@ -41,6 +41,7 @@ pub mod wire;
 // only caller of the stages, which calls them in that order.
 pub mod corrections;
 pub mod engine;
+pub mod filter;
 pub mod measurements;
 pub mod nav;
 pub mod snapshot;
