@@ -97,8 +97,7 @@ fn main() -> ! {
         exit(false)
     };
     let _syst = cost::start(cp.SYST);
-    let Some(engine) = cortex_m::singleton!(: Engine<N, EPH> = Engine::with_defaults())
-    else {
+    let Some(engine) = cortex_m::singleton!(: Engine<N, EPH> = Engine::with_defaults()) else {
         exit(false)
     };
     let Some(source) = cortex_m::singleton!(: MeasurementSource<ReplayUart, N, B> = MeasurementSource::new(ReplayUart::new(FRAMES)))
