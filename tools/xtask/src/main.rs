@@ -403,6 +403,7 @@ fn vectors(r: &mut Runner, write: bool) {
         ("gen_frames.py", "frames_pymap3d.csv"),
         ("gen_times.py", "times_astropy.csv"),
         ("gen_models.py", "models_reference.csv"),
+        ("gen_filter.py", "filter_filterpy.csv"),
     ] {
         println!("\nxtask: == regenerate {file}");
         let out = Command::new(&vpy_s)
