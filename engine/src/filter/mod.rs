@@ -10,7 +10,9 @@
 //!   coefficients, TCXO preset) and [`ProcessNoise`] (both, plus the inter-system bias walk);
 //! - [`process`]: [`FilterState::predict`] over a step `dt`;
 //! - [`update`]: [`FilterState::update`], one scalar measurement with a χ²(1) gate, in Joseph
-//!   form.
+//!   form; a measurement more than 10¹² times more precise than the state along its row is
+//!   refused ([`update::MAX_VARIANCE_RATIO`]), because f64 could not keep `P` positive
+//!   definite after it.
 //!
 //! # Model
 //! ```text
@@ -30,8 +32,8 @@
 //! ```
 //! Sources: the constant-velocity model with white acceleration and the Joseph form from
 //! Bar-Shalom, Li & Kirubarajan, "Estimation with Applications to Tracking and Navigation"
-//! (2001) [M]; the clock model from Brown & Hwang, "Introduction to Random Signals and Applied
-//! Kalman Filtering" [M]; the presets' reasoning in [`noise`]. Checked against filterpy's
+//! (2001) \[M\]; the clock model from Brown & Hwang, "Introduction to Random Signals and Applied
+//! Kalman Filtering" \[M\]; the presets' reasoning in [`noise`]. Checked against filterpy's
 //! `KalmanFilter` (host-tests/tests/filter_reference.rs), by closed forms (this module's unit
 //! tests) and by a property test that random valid and invalid steps keep the state finite
 //! and positive definite (host-tests/tests/filter_properties.rs).

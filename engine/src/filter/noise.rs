@@ -7,7 +7,7 @@
 //! accelerations have a standard deviation σₐ and stay correlated for about τ seconds
 //! (one manoeuvre: a start, a turn, a braking) gives `q ≈ σₐ²·τ` (common practice: the
 //! white-noise equivalent of a first-order Gauss–Markov acceleration for steps longer than
-//! τ). The σₐ and τ below are typical values from experience [M], not measurements of any
+//! τ). The σₐ and τ below are typical values from experience \[M\], not measurements of any
 //! vehicle; they are starting points for the tuning tool, not calibrated figures.
 //! Horizontal and vertical are apart because most platforms barely accelerate vertically.
 
@@ -79,7 +79,7 @@ pub struct MotionProfile {
 
 impl MotionProfile {
     /// A parked container, pallet or machine: horizontal 1e-4, vertical 1e-4 m²/s³
-    /// (σₐ ≈ 0.01 m/s² for τ ≈ 1 s [M]). Not zero, so that the filter can still follow an
+    /// (σₐ ≈ 0.01 m/s² for τ ≈ 1 s \[M\]). Not zero, so that the filter can still follow an
     /// asset that is moved slowly; a parked asset is pinned by the stationary hold, not by
     /// this profile. Velocity σ grows by 0.01 m/s in √s.
     pub const STATIC_ASSET: MotionProfile = MotionProfile {
@@ -87,14 +87,14 @@ impl MotionProfile {
         accel_psd_vertical: 1e-4,
     };
     /// Walking: horizontal 0.5, vertical 0.05 m²/s³. Starts, stops and turns of
-    /// σₐ ≈ 0.5 m/s² for τ ≈ 2 s [M] (the step-by-step oscillation of a body-worn device
+    /// σₐ ≈ 0.5 m/s² for τ ≈ 2 s \[M\] (the step-by-step oscillation of a body-worn device
     /// averages out over a second); vertically stairs and lifts, σₐ ≈ 0.15 m/s² for τ ≈ 2 s.
     pub const PEDESTRIAN: MotionProfile = MotionProfile {
         accel_psd_horizontal: 0.5,
         accel_psd_vertical: 0.05,
     };
     /// Cars, vans and trucks: horizontal 5, vertical 0.1 m²/s³. Braking, accelerating and
-    /// cornering of σₐ ≈ 1.3 m/s² (about 0.13 g) held for τ ≈ 3 s [M]; vertically changes of
+    /// cornering of σₐ ≈ 1.3 m/s² (about 0.13 g) held for τ ≈ 3 s \[M\]; vertically changes of
     /// road grade, σₐ ≈ 0.2 m/s² for τ ≈ 3 s. Values of 1–10 m²/s³ are common practice for
     /// land-vehicle filters.
     pub const ROAD_VEHICLE: MotionProfile = MotionProfile {
@@ -102,7 +102,7 @@ impl MotionProfile {
         accel_psd_vertical: 0.1,
     };
     /// Cargo ships and barges: horizontal 0.05, vertical 0.05 m²/s³. Course and speed change
-    /// slowly, σₐ ≈ 0.04 m/s² for τ ≈ 30 s [M]; vertically the heave of a large hull, ±0.5 m at
+    /// slowly, σₐ ≈ 0.04 m/s² for τ ≈ 30 s \[M\]; vertically the heave of a large hull, ±0.5 m at
     /// a 10 s period, has an acceleration of about 0.14 m/s² r.m.s. correlated for about a
     /// quarter period (0.14² · 2.5 ≈ 0.05). White acceleration overstates how far heave can
     /// wander over minutes; the position updates bound it.
@@ -111,7 +111,7 @@ impl MotionProfile {
         accel_psd_vertical: 0.05,
     };
     /// Trains: horizontal 1, vertical 0.01 m²/s³. Traction and braking of σₐ ≈ 0.3 m/s² r.m.s.
-    /// (peaks near 1 m/s²) held for τ ≈ 10 s [M]; track grades of a few per mille give almost
+    /// (peaks near 1 m/s²) held for τ ≈ 10 s \[M\]; track grades of a few per mille give almost
     /// no vertical acceleration (σₐ ≈ 0.03 m/s² for τ ≈ 10 s).
     pub const RAIL: MotionProfile = MotionProfile {
         accel_psd_horizontal: 1.0,
@@ -145,7 +145,7 @@ impl Default for MotionProfile {
 
 /// Allan-variance coefficients of the receiver oscillator, for the two-state clock model of
 /// Brown & Hwang ("Introduction to Random Signals and Applied Kalman Filtering", clock model
-/// section [M]): `S_f = h0/2` (white frequency noise, drives the bias) and
+/// section \[M\]): `S_f = h0/2` (white frequency noise, drives the bias) and
 /// `S_g = 2π²·h₋₂` (random-walk frequency noise, drives the drift). The flicker term `h₋₁`
 /// has no finite-state form and is left out, as in that model.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -161,8 +161,8 @@ pub struct ClockNoise {
 
 impl ClockNoise {
     /// A temperature-compensated crystal oscillator: h0 = 2e-19 s, h₋₂ = 2e-20 1/s
-    /// [M: Brown & Hwang's table of typical oscillator coefficients, TCXO row; to be
-    /// confirmed against the book]. In metres (× c²): the bias gains 9.0e-3 m²/s from white
+    /// \[M: Brown & Hwang's table of typical oscillator coefficients, TCXO row; to be
+    /// confirmed against the book\]. In metres (× c²): the bias gains 9.0e-3 m²/s from white
     /// frequency noise and the drift 3.5e-2 m²/s³.
     pub const TCXO: ClockNoise = ClockNoise {
         h0: 2e-19,
@@ -214,7 +214,7 @@ pub struct ProcessNoise {
     pub clock: ClockNoise,
     /// Random-walk PSD of each inter-system bias, m²/s, within [`ISB_PSD_RANGE`].
     /// Default 1e-5 m²/s: σ grows by 0.19 m in an hour and 0.93 m in a day, a slow wander of
-    /// receiver-internal delays with temperature [M].
+    /// receiver-internal delays with temperature \[M\].
     pub isb_psd: f64,
 }
 

@@ -11,8 +11,8 @@
 //! ```
 //! The white-acceleration blocks are the exact discretisation of a constant-velocity model
 //! driven by white acceleration (common practice; Bar-Shalom, Li & Kirubarajan 2001, the
-//! continuous white-noise acceleration model [M]); the clock block is Brown & Hwang's
-//! two-state clock model [M]. Because east and north share one PSD, the rotated tensor
+//! continuous white-noise acceleration model \[M\]); the clock block is Brown & Hwang's
+//! two-state clock model \[M\]. Because east and north share one PSD, the rotated tensor
 //! needs only the up direction `u`: here the ellipsoid normal through the point, taken as
 //! the gradient of the WGS-84 ellipsoid's equation, `(x, y, z/(1 − e²))`, normalised. That is
 //! exact on the ellipsoid and tilts by about `h·e′²·sin φ cos φ / (N + h)` off it

@@ -262,17 +262,24 @@ fn results_out_of_range_are_refused() {
     let before = s;
     let row = MeasurementRow::single(CLOCK_BIAS, 1.0);
     assert_eq!(
-        s.update(&row, 5e12, 1.0, f64::INFINITY),
+        s.update(&row, 5e12, 1e10, f64::INFINITY),
         Err(UpdateError::OutOfRange)
     );
     assert_eq!(s, before);
-    // A measurement 10³²⁰ times more precise than the state: the posterior variance
-    // rounds to zero, which is refused rather than stored.
+    // A measurement 10³²⁰ times more precise than the state is refused (f64 could not keep
+    // P' positive definite), and so is one just past the 10¹² limit; one just inside it is
+    // applied and leaves P' positive definite.
     assert_eq!(
         s.update(&row, 1.0, 1e-300, f64::INFINITY),
-        Err(UpdateError::OutOfRange)
+        Err(UpdateError::TooPrecise)
+    );
+    assert_eq!(
+        s.update(&row, 1.0, 1e20 / 1.01e12, f64::INFINITY),
+        Err(UpdateError::TooPrecise)
     );
     assert_eq!(s, before);
+    assert!(s.update(&row, 1.0, 1e20 / 0.99e12, f64::INFINITY).is_ok());
+    assert!(s.is_positive_definite());
 }
 
 #[test]
