@@ -3,12 +3,16 @@
 
 use crate::config::{Config, ConfigError};
 use crate::corrections::iono::IonoCoefficients;
+use crate::frames::LocalFrame;
 use crate::measurements::observation::{Epoch, Observation};
 use crate::nav::ephemeris::{BroadcastEphemeris, EphemerisError};
 use crate::nav::store::{EphemerisStore, Ingested, StoredEphemeris};
 use crate::sat::SPEED_OF_LIGHT;
+use crate::snapshot::velocity::{solve_velocity, RateRow};
 use crate::snapshot::wls::{solve, Candidate, Outcome, Setup};
-use crate::solution::{FixKind, FixOutcome, SatStatus, SatUse, Solution};
+use crate::solution::{
+    DopplerUse, Fix, FixKind, FixOutcome, SatStatus, SatUse, Solution, Velocity,
+};
 use crate::time::GnssTime;
 use heapless::Vec;
 
@@ -204,6 +208,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
                 residual_m: None,
                 sigma_m: None,
                 status,
+                doppler: doppler_use(obs, &self.config),
             });
         }
 
@@ -241,6 +246,10 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             }
         }
 
+        let result = result.map(|mut fix| {
+            fix.velocity = self.velocity(&fix, &cands, &outcomes, &cand_index, &mut sats);
+            fix
+        });
         let outcome = match result {
             Ok(fix) => {
                 if fix.kind == FixKind::ThreeD {
@@ -324,6 +333,67 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             sys: system.index(),
             cn0_factor,
             iono_scale: obs.signal.iono_scale_from_l1() as f32,
+            vel: state.vel,
+            clock_drift_mps: state.clock_drift * SPEED_OF_LIGHT,
+            range_rate_mps: range_rate_mps(obs, cfg),
         })
+    }
+
+    /// The velocity from the Doppler of the candidates the fix used; marks each used
+    /// Doppler with its residual in `sats`.
+    fn velocity(
+        &self,
+        fix: &Fix,
+        cands: &[Candidate],
+        outcomes: &[Outcome],
+        cand_index: &[usize],
+        sats: &mut [SatUse],
+    ) -> Option<Velocity> {
+        let mut rows: Vec<RateRow, N> = Vec::new();
+        let mut which: Vec<usize, N> = Vec::new();
+        for ((c, o), &i) in cands.iter().zip(outcomes).zip(cand_index) {
+            if let (true, Some(rate)) = (o.used, c.range_rate_mps) {
+                let row = RateRow {
+                    los: [-o.row[0], -o.row[1], -o.row[2]],
+                    sat_vel: c.vel,
+                    sat_drift_mps: c.clock_drift_mps,
+                    range_rate_mps: rate,
+                    sigma_mps: self.config.snapshot.doppler_sigma_mps * f64::from(c.cn0_factor),
+                };
+                // Both capacities are N, one push per candidate.
+                if rows.push(row).is_ok() {
+                    let _ = which.push(i);
+                }
+            }
+        }
+        let frame = LocalFrame::new(fix.ecef_m, &fix.geodetic);
+        let mut residuals = [0.0f64; N];
+        let v = solve_velocity(&rows, &frame, &mut residuals)?;
+        for (&i, r) in which.iter().zip(residuals.iter()) {
+            if let Some(s) = sats.get_mut(i) {
+                s.doppler = DopplerUse::Used {
+                    residual_mps: *r as f32,
+                };
+            }
+        }
+        Some(v)
+    }
+}
+
+/// The observation's range rate −λ·D in m/s, when its Doppler is reported (zero is
+/// missing), finite and within the configured magnitude.
+fn range_rate_mps(obs: &Observation, cfg: &Config) -> Option<f64> {
+    let d = obs.doppler_hz.filter(|d| *d != 0.0)?;
+    let rate = -d * SPEED_OF_LIGHT / obs.signal.frequency_hz();
+    (rate.is_finite() && rate.abs() <= cfg.measurements.max_range_rate_mps).then_some(rate)
+}
+
+/// The first word on an observation's Doppler: missing, refused, or usable.
+fn doppler_use(obs: &Observation, cfg: &Config) -> DopplerUse {
+    match obs.doppler_hz {
+        None => DopplerUse::NotReported,
+        Some(0.0) => DopplerUse::NotReported,
+        Some(_) if range_rate_mps(obs, cfg).is_none() => DopplerUse::Rejected,
+        Some(_) => DopplerUse::NotUsed,
     }
 }

@@ -59,7 +59,8 @@ pub use iono::IonoCoefficients;
 pub use observation::{Epoch, Observation};
 pub use sat::{SatId, Signal, System, SPEED_OF_LIGHT};
 pub use solution::{
-    Dop, Fix, FixKind, FixOutcome, IonoCorrection, NoFixReason, SatStatus, SatUse, Solution,
+    Dop, DopplerUse, Fix, FixKind, FixOutcome, IonoCorrection, NoFixReason, SatStatus, SatUse,
+    Solution, Velocity,
 };
 pub use store::{EphemerisStore, Ingested};
 pub use time::{GnssTime, TimeError, UtcDateTime};

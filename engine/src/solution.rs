@@ -38,6 +38,26 @@ pub enum SatStatus {
     NotSolved,
 }
 
+/// What became of an observation's Doppler.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
+pub enum DopplerUse {
+    /// No Doppler reported (or reported as zero: missing).
+    NotReported,
+    /// Reported but NaN, infinite or beyond the plausible range rate: refused.
+    Rejected,
+    /// Plausible, but not used (its pseudorange was not used, or too few Dopplers for a
+    /// velocity).
+    NotUsed,
+    /// Used in the velocity solution.
+    Used {
+        /// Post-fit range-rate residual, m/s.
+        residual_mps: f32,
+    },
+}
+
 /// One observation's satellite as seen in this epoch.
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -57,6 +77,8 @@ pub struct SatUse {
     pub sigma_m: Option<f32>,
     /// What became of it.
     pub status: SatStatus,
+    /// What became of its Doppler.
+    pub doppler: DopplerUse,
 }
 
 /// Dilution of precision, from the unweighted geometry (HᵀH)⁻¹ in east/north/up.
@@ -100,6 +122,23 @@ pub enum IonoCorrection {
     Klobuchar,
 }
 
+/// Receiver velocity and clock drift from Doppler.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Velocity {
+    /// Velocity, WGS-84 ECEF, m/s.
+    pub ecef_mps: [f64; 3],
+    /// The same in east/north/up at the fix, m/s.
+    pub enu_mps: [f64; 3],
+    /// Receiver clock drift, m/s (divide by c for s/s).
+    pub clock_drift_mps: f64,
+    /// Velocity covariance in east/north/up, (m/s)², from the Doppler σ model.
+    pub covariance_enu_m2s2: [[f64; 3]; 3],
+    /// Doppler measurements used.
+    pub used: u8,
+}
+
 /// A position fix.
 #[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -129,6 +168,8 @@ pub struct Fix {
     pub iono: IonoCorrection,
     /// Weighted sum of squared residuals Σ(v/σ)² (a χ² statistic when the σ model holds).
     pub weighted_sse: f64,
+    /// Velocity and clock drift, when at least four used satellites reported Doppler.
+    pub velocity: Option<Velocity>,
 }
 
 /// Why an epoch produced no fix.

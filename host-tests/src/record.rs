@@ -31,6 +31,10 @@ pub struct FixSummary {
     pub residual_rms_m: f64,
     /// Ionosphere correction applied.
     pub iono: IonoCorrection,
+    /// Velocity east/north/up from Doppler, m/s, when the fix has one.
+    pub velocity_enu_mps: Option<[f64; 3]>,
+    /// 1-σ of that velocity, east/north/up, m/s.
+    pub velocity_sigma_enu_mps: Option<[f64; 3]>,
 }
 
 /// One satellite's view in an epoch.
@@ -59,6 +63,8 @@ pub struct EpochRecord {
     pub no_fix: Option<NoFixReason>,
     /// True on the first epoch after the receiver woke up (duty-cycled runs).
     pub wake_start: bool,
+    /// True antenna velocity, ECEF m/s, when known (zero for a reference station).
+    pub truth_velocity_ecef_mps: Option<[f64; 3]>,
     /// Per satellite.
     pub sats: Vec<SatSummary>,
 }
@@ -111,6 +117,11 @@ impl EpochRecord {
                         used: f.used,
                         residual_rms_m: rms,
                         iono: f.iono,
+                        velocity_enu_mps: f.velocity.map(|v| v.enu_mps),
+                        velocity_sigma_enu_mps: f.velocity.map(|v| {
+                            let c = v.covariance_enu_m2s2;
+                            [0, 1, 2].map(|k| c[k][k].max(0.0).sqrt())
+                        }),
                     }),
                     None,
                 )
@@ -123,7 +134,17 @@ impl EpochRecord {
             fix,
             no_fix,
             wake_start,
+            truth_velocity_ecef_mps: None,
             sats,
         }
+    }
+
+    /// East/north/up velocity error against the truth velocity, m/s, when both are known.
+    pub fn velocity_error_enu_mps(&self) -> Option<[f64; 3]> {
+        let f = self.fix?;
+        let v = f.velocity_enu_mps?;
+        let t = self.truth_velocity_ecef_mps?;
+        let t = LocalFrame::at_ecef(f.ecef_m).rotate(t);
+        Some([v[0] - t[0], v[1] - t[1], v[2] - t[2]])
     }
 }

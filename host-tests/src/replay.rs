@@ -134,6 +134,9 @@ pub fn to_engine_epoch(header: &ObsHeader, e: &ObsEpoch) -> (Epoch<REPLAY_N>, us
             if let Some(pr) = e.value(header, s, code) {
                 let mut o = Observation::code(SatId { system, prn: s.prn }, *signal, pr);
                 o.cn0_dbhz = e.value(header, s, snr).map(|v| v as f32);
+                // The Doppler of the same signal: D with the code's band and attribute.
+                let doppler = format!("D{}", code.get(1..).unwrap_or(""));
+                o.doppler_hz = e.value(header, s, &doppler);
                 if out.push(o).is_err() {
                     dropped += 1;
                 }
@@ -219,7 +222,12 @@ pub fn replay_with_progress(
             Some(Truth::Trajectory(t)) => truth_at(t, e.time),
             _ => marker,
         };
-        out.push(EpochRecord::from_solution(&sol, truth, out.is_empty()));
+        let mut record = EpochRecord::from_solution(&sol, truth, out.is_empty());
+        // A marker is a fixed station: its true velocity is zero.
+        if marker.is_some() && matches!(ds.truth, Some(Truth::Marker(_))) {
+            record.truth_velocity_ecef_mps = Some([0.0; 3]);
+        }
+        out.push(record);
         if out.len() % 64 == 0 {
             progress(reader.bytes_read() as f64 / size as f64);
         }

@@ -4,8 +4,8 @@
 use proptest::prelude::*;
 use rand::SeedableRng;
 use trackfix_engine::{
-    BroadcastEphemeris, Config, Engine, EphemerisError, Epoch, EpochError, FixOutcome, Geodetic,
-    GnssTime, NoFixReason, Observation, SatId, SatStatus, Signal, System,
+    BroadcastEphemeris, Config, DopplerUse, Engine, EphemerisError, Epoch, EpochError, FixOutcome,
+    Geodetic, GnssTime, NoFixReason, Observation, SatId, SatStatus, Signal, System,
 };
 use trackfix_harness::synth::{constellation, observe, StaticReceiver};
 
@@ -307,4 +307,26 @@ proptest! {
             prop_assert!(f.geodetic.height_m >= span.0 && f.geodetic.height_m <= span.1);
         }
     }
+}
+
+// A bad Doppler costs only that Doppler: NaN, ±∞ and 100 km/s (beyond any satellite's range
+// rate plus a receiver oscillator's offset) are refused by status, the pseudorange is still
+// used and the position fix stands. The rest of the epoch has no Doppler, so no velocity.
+#[test]
+fn bad_doppler_is_refused_alone() {
+    let hz_for_100_km_s = 100_000.0 * 1_575.42e6 / 299_792_458.0;
+    for bad in [f64::NAN, f64::INFINITY, f64::NEG_INFINITY, hz_for_100_km_s] {
+        let (mut engine, mut epoch, _) = setup();
+        epoch.obs[0].doppler_hz = Some(bad);
+        let sol = engine.process(&epoch).unwrap();
+        assert_eq!(sol.sats[0].doppler, DopplerUse::Rejected, "{bad}");
+        assert_eq!(sol.sats[0].status, SatStatus::Used, "{bad}");
+        let fix = sol.fix().expect("the position fix stands");
+        assert!(fix.velocity.is_none());
+    }
+    // Zero means not measured (receivers report missing values so).
+    let (mut engine, mut epoch, _) = setup();
+    epoch.obs[0].doppler_hz = Some(0.0);
+    let sol = engine.process(&epoch).unwrap();
+    assert_eq!(sol.sats[0].doppler, DopplerUse::NotReported);
 }

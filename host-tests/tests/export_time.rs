@@ -64,6 +64,8 @@ fn record(time: GnssTime, with_fix: bool) -> EpochRecord {
         used: 9,
         residual_rms_m: 0.8,
         iono: IonoCorrection::Klobuchar,
+        velocity_enu_mps: None,
+        velocity_sigma_enu_mps: None,
     };
     EpochRecord {
         time,
@@ -71,6 +73,7 @@ fn record(time: GnssTime, with_fix: bool) -> EpochRecord {
         fix: with_fix.then_some(fix),
         no_fix: None,
         wake_start: false,
+        truth_velocity_ecef_mps: None,
         sats: vec![],
     }
 }

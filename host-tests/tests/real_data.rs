@@ -265,3 +265,34 @@ fn kms3_rinex4_gps_galileo() {
     };
     gate("KMS3", &a, &measured);
 }
+
+// Velocity from Doppler on a fixed reference station, whose true velocity is zero: the RMS of
+// each component over the two hours. The σ model (0.1 m/s per Doppler, velocity DOP 1–2)
+// allows a few decimetres per second; a geodetic receiver's Doppler does far better
+// (measured 0.005 / 0.010 / 0.013 m/s, rounded up to the next mm/s here), and the gate is
+// MARGIN × that. A wrong sign of the satellite velocity or clock drift moves these by
+// metres per second.
+#[test]
+fn esbc_velocity_of_a_fixed_station_is_near_zero() {
+    let Some(dir) = data_dir_or_skip("esbc_velocity_of_a_fixed_station_is_near_zero") else {
+        return;
+    };
+    let ds = dataset(&dir, ESBC_OBS, &[ESBC_NAV], Some(ESBC));
+    let r = replay(
+        &ds,
+        Config::default().with_systems(&[System::Gps, System::Galileo]),
+    )
+    .unwrap();
+    let errors: Vec<[f64; 3]> = r
+        .iter()
+        .filter_map(|e| e.velocity_error_enu_mps())
+        .collect();
+    assert_eq!(errors.len(), 240, "every fix has a velocity");
+    let rms =
+        |k: usize| (errors.iter().map(|e| e[k] * e[k]).sum::<f64>() / errors.len() as f64).sqrt();
+    let (e, n, u) = (rms(0), rms(1), rms(2));
+    println!("ESBC velocity error RMS east {e:.3}, north {n:.3}, up {u:.3} m/s");
+    for (what, got, measured) in [("east", e, 0.006), ("north", n, 0.011), ("up", u, 0.014)] {
+        assert!(got <= MARGIN * measured, "{what} RMS {got:.3} m/s");
+    }
+}

@@ -111,6 +111,11 @@ pub struct MeasurementConfig {
     /// closest MEO satellite is ≥ 19,000 km away, GEO ≤ 42,000 km, leaving ±0.8e7 m for a
     /// receiver clock offset of up to ±25 ms. Range: 0 < min < max ≤ 1e8 m.
     pub pseudorange_span_m: (f64, f64),
+    /// A Doppler whose range rate exceeds this magnitude is refused, m/s. Default 5,000 m/s:
+    /// a MEO satellite's line-of-sight rate stays under about 1,000 m/s, a GEO's near zero;
+    /// a receiver oscillator off by ±10 ppm adds ±3,000 m/s; an airliner 250 m/s (common
+    /// practice). Range 1,000–20,000 m/s.
+    pub max_range_rate_mps: f64,
 }
 
 impl MeasurementConfig {
@@ -120,6 +125,7 @@ impl MeasurementConfig {
         signals: SystemSignals::DEFAULT,
         cn0_mask_dbhz: 20.0,
         pseudorange_span_m: (1.5e7, 5.0e7),
+        max_range_rate_mps: 5_000.0,
     };
 }
 
@@ -245,6 +251,10 @@ pub struct SnapshotConfig {
     /// How long the last 3-D height stays usable for a 2-D fix, seconds. Default 600 s.
     /// Range 0–86,400 s.
     pub altitude_hold_max_age_s: f64,
+    /// Range-rate (Doppler) σ at or above the reference C/N0, m/s; it grows with C/N0 like
+    /// the code σ. Default 0.1 m/s (a mass-market receiver's Doppler noise is a few cm/s to
+    /// a few dm/s, common practice). Range 0.001–10 m/s.
+    pub doppler_sigma_mps: f64,
 }
 
 impl SnapshotConfig {
@@ -259,6 +269,7 @@ impl SnapshotConfig {
         height_span_m: (-1_000.0, 20_000.0),
         altitude_hold_sigma_m: 5.0,
         altitude_hold_max_age_s: 600.0,
+        doppler_sigma_mps: 0.1,
     };
 }
 

@@ -121,6 +121,12 @@ impl Config {
             1e8,
         )?;
         range(
+            "measurements.max_range_rate_mps",
+            m.max_range_rate_mps,
+            1_000.0,
+            20_000.0,
+        )?;
+        range(
             "nav.max_ephemeris_age_s",
             self.nav.max_ephemeris_age_s,
             60.0,
@@ -170,6 +176,12 @@ impl Config {
             s.altitude_hold_max_age_s,
             0.0,
             86_400.0,
+        )?;
+        range(
+            "snapshot.doppler_sigma_mps",
+            s.doppler_sigma_mps,
+            0.001,
+            10.0,
         )
     }
 }

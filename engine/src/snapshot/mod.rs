@@ -1,3 +1,5 @@
-//! The snapshot solution: one epoch's weighted least squares, DOP and residuals.
+//! The snapshot solution: one epoch's weighted least squares, DOP and residuals, and the
+//! velocity and clock drift from Doppler.
 
+pub(crate) mod velocity;
 pub(crate) mod wls;

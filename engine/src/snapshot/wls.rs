@@ -47,6 +47,12 @@ pub(crate) struct Candidate {
     pub cn0_factor: f32,
     /// Ionospheric scale from L1 to this signal's frequency.
     pub iono_scale: f32,
+    /// Satellite ECEF velocity at transmit time, m/s.
+    pub vel: [f64; 3],
+    /// Satellite clock drift, m/s.
+    pub clock_drift_mps: f64,
+    /// Measured range rate −λ·D, m/s, when a plausible Doppler was reported.
+    pub range_rate_mps: Option<f64>,
 }
 
 impl Candidate {
@@ -73,8 +79,9 @@ pub(crate) struct Outcome {
     pub sigma_m: f64,
     /// Ionosphere and troposphere delay applied, m.
     pub delay_m: f64,
-    /// Partial derivatives row (−unit line of sight), kept for the post-fit residual.
-    row: [f64; 3],
+    /// Partial derivatives row (−unit line of sight), kept for the post-fit residual and
+    /// the velocity solution.
+    pub row: [f64; 3],
 }
 
 /// Inputs of one solution besides the candidates.
@@ -359,11 +366,12 @@ fn finish(
             IonoCorrection::None
         },
         weighted_sse: sse,
+        velocity: None,
     })
 }
 
 /// The position block of a 6×6 ECEF covariance rotated to east/north/up: R·Q·Rᵀ.
-fn enu_block(frame: &LocalFrame, q6: &Mat6) -> [[f64; 3]; 3] {
+pub(crate) fn enu_block(frame: &LocalFrame, q6: &Mat6) -> [[f64; 3]; 3] {
     let q = |i: usize, j: usize| q6.get(i).and_then(|r| r.get(j)).copied().unwrap_or(0.0);
     let mut out = [[0.0; 3]; 3];
     for (a, ra) in out.iter_mut().zip(frame.axes) {

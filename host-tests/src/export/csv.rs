@@ -6,7 +6,7 @@ use crate::record::EpochRecord;
 use std::fmt::Write as _;
 
 /// The header line.
-pub const HEADER: &str = "gps_week,tow_s,utc,fix,lat_deg,lon_deg,height_m,east_err_m,north_err_m,up_err_m,used,hdop,vdop,pdop,sigma_east_m,sigma_north_m,sigma_up_m,residual_rms_m,no_fix_reason";
+pub const HEADER: &str = "gps_week,tow_s,utc,fix,lat_deg,lon_deg,height_m,east_err_m,north_err_m,up_err_m,used,hdop,vdop,pdop,sigma_east_m,sigma_north_m,sigma_up_m,residual_rms_m,vel_east_mps,vel_north_mps,vel_up_mps,no_fix_reason";
 
 /// The CSV document of a run.
 pub fn write_run(records: &[EpochRecord]) -> String {
@@ -25,9 +25,12 @@ pub fn write_run(records: &[EpochRecord]) -> String {
                 let err = f.enu_error_m.map_or(",,".to_string(), |e| {
                     format!("{:.3},{:.3},{:.3}", e[0], e[1], e[2])
                 });
+                let vel = f.velocity_enu_mps.map_or(",,".to_string(), |v| {
+                    format!("{:.3},{:.3},{:.3}", v[0], v[1], v[2])
+                });
                 let _ = writeln!(
                     s,
-                    "{:?},{:.9},{:.9},{:.3},{err},{},{:.2},{:.2},{:.2},{:.3},{:.3},{:.3},{:.3},",
+                    "{:?},{:.9},{:.9},{:.3},{err},{},{:.2},{:.2},{:.2},{:.3},{:.3},{:.3},{:.3},{vel},",
                     f.kind,
                     f.lat_lon_h[0],
                     f.lat_lon_h[1],
@@ -47,7 +50,7 @@ pub fn write_run(records: &[EpochRecord]) -> String {
                     .no_fix
                     .map(|n| format!("{n:?}").replace(',', ";"))
                     .unwrap_or_default();
-                let _ = writeln!(s, "None,,,,,,,,,,,,,,,{reason}");
+                let _ = writeln!(s, "None,,,,,,,,,,,,,,,,,,{reason}");
             }
         }
     }

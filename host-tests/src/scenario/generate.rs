@@ -30,6 +30,8 @@ pub struct GenEpoch {
     pub epoch: Epoch<GEN_N>,
     /// True antenna position, ECEF m.
     pub truth_ecef: [f64; 3],
+    /// True antenna velocity, ECEF m/s.
+    pub truth_velocity_ecef: [f64; 3],
     /// First epoch after a wake-up.
     pub wake_start: bool,
     /// Ephemerides that became available to the tracker at this epoch, in broadcast order.
@@ -72,6 +74,9 @@ pub struct Generator {
     was_awake: bool,
     faults: Vec<(SatId, f64, f64, f64)>,
     mutation: Mutation,
+    /// Doppler noise draws: a stream of their own, so adding Doppler left every other draw
+    /// (and so every earlier scenario result) unchanged.
+    doppler_rng: rand::rngs::StdRng,
 }
 
 /// Parses "G07"-style satellite names.
@@ -160,6 +165,7 @@ impl Generator {
             was_awake: false,
             faults,
             mutation: Mutation::default(),
+            doppler_rng: rand::rngs::StdRng::seed_from_u64(spec.seed ^ 0x0064_6f70_706c_6572),
         })
     }
 
@@ -217,6 +223,48 @@ impl Generator {
             nlos_bias: 0.0,
             next_redraw: 0.0,
         })
+    }
+}
+
+/// The receiver's ECEF velocity from its speed over ground and heading (level motion).
+fn velocity_ecef(kin: &super::motion::Kinematics) -> [f64; 3] {
+    let frame = LocalFrame::new(kin.ecef, &kin.geodetic);
+    let (ve, vn) = (
+        kin.speed_mps * kin.heading_rad.sin(),
+        kin.speed_mps * kin.heading_rad.cos(),
+    );
+    let [e, n, _] = frame.axes;
+    [0, 1, 2].map(|k| e[k] * ve + n[k] * vn)
+}
+
+impl Generator {
+    /// The true range rate (m/s) of `eph`'s satellite on `signal`: the central difference of
+    /// the truth pseudorange over ±0.5 s, with the receiver moving at its velocity and its
+    /// clock drifting (the derivative of everything the pseudorange holds but the
+    /// atmosphere, whose rate is millimetres per second).
+    fn true_range_rate(
+        &self,
+        eph: &BroadcastEphemeris,
+        signal: Signal,
+        t_true: GnssTime,
+        kin: &super::motion::Kinematics,
+        clock_m: f64,
+    ) -> f64 {
+        let v = velocity_ecef(kin);
+        let at = |h: f64| {
+            let rx = [0, 1, 2].map(|k| kin.ecef[k] + v[k] * h);
+            let clk = clock_m + self.clock_drift_mps * h;
+            truth::pseudorange(
+                eph,
+                signal,
+                orbit::shift(t_true, h),
+                rx,
+                clk,
+                &self.mutation,
+            )
+            .pseudorange_m
+        };
+        at(0.5) - at(-0.5)
     }
 }
 
@@ -289,6 +337,7 @@ impl Generator {
         GenEpoch {
             epoch,
             truth_ecef: kin.ecef,
+            truth_velocity_ecef: velocity_ecef(&kin),
             wake_start,
             new_ephemerides,
         }
@@ -319,6 +368,7 @@ impl Generator {
             let signal = primary_signal(sys);
             let truth = truth::pseudorange(eph, signal, t_true, kin.ecef, clock, &self.mutation);
             let (pr0, sat_pos) = (truth.pseudorange_m, truth.sat_ecef_m);
+            let rate = self.true_range_rate(eph, signal, t_true, kin, clock);
             let (az, el) = frame.az_el(sat_pos);
             let el_deg = el.to_degrees();
             if el_deg < errs.horizon_deg {
@@ -379,6 +429,9 @@ impl Generator {
                 common + iono_l1 * clock::iono_scale_from_l1(signal) + sigma * draw(),
             );
             o.cn0_dbhz = Some(cn0 as f32);
+            let unit_draw = unit.map_or(0.0, |n| n.sample(&mut self.doppler_rng));
+            let noise = errs.doppler_sigma_mps * 10f64.powf((45.0 - cn0) / 20.0) * unit_draw;
+            o.doppler_hz = Some(-(rate + noise) * clock::frequency_hz(signal) / SPEED_OF_LIGHT);
             let _ = epoch.push(o);
             if self.spec.dual_frequency {
                 let second = match sys {

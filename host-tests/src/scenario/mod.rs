@@ -45,11 +45,9 @@ pub fn run_mutated(
             let _ = engine.ingest_ephemeris(*e);
         }
         if let Ok(sol) = engine.process(&g.epoch) {
-            out.push(EpochRecord::from_solution(
-                &sol,
-                Some(g.truth_ecef),
-                g.wake_start,
-            ));
+            let mut record = EpochRecord::from_solution(&sol, Some(g.truth_ecef), g.wake_start);
+            record.truth_velocity_ecef_mps = Some(g.truth_velocity_ecef);
+            out.push(record);
         }
     }
     Ok(out)

@@ -144,6 +144,10 @@ pub struct ErrorSpec {
     pub clock: ClockKind,
     /// Satellites below this elevation are not tracked, °. Default 5.
     pub horizon_deg: f64,
+    /// Doppler noise σ at 45 dB-Hz as a range rate, m/s, scaling with C/N0 like the code
+    /// noise. Default 0.05 m/s (a mass-market receiver's Doppler is good to a few cm/s in
+    /// open sky, common practice).
+    pub doppler_sigma_mps: f64,
 }
 
 impl Default for ErrorSpec {
@@ -158,6 +162,7 @@ impl Default for ErrorSpec {
             urban_canyon: None,
             clock: ClockKind::Tcxo,
             horizon_deg: 5.0,
+            doppler_sigma_mps: 0.05,
         }
     }
 }

@@ -58,6 +58,11 @@ pub fn group_delay_s(eph: &BroadcastEphemeris, signal: Signal) -> f64 {
     }
 }
 
+/// Carrier frequency of `signal`, Hz.
+pub fn frequency_hz(signal: Signal) -> f64 {
+    multiple_of_10_23_mhz(signal) * 10.23e6
+}
+
 /// Ionospheric delay on `signal` per metre of delay on L1: (f_L1/f)², the first-order
 /// dispersion law (common practice).
 pub fn iono_scale_from_l1(signal: Signal) -> f64 {
