@@ -19,10 +19,13 @@
 //! (`e′² = e²/(1 − e²)`; at most 5.3 µrad at 10 km height), with no trigonometry; a position at the Earth's centre has no up and gets the
 //! larger PSD on all three axes.
 //!
-//! Cost per step, n = 10: F P Fᵀ touches only the rows and columns of position and bias —
-//! 10 elements of the upper triangle take two multiplications, 24 take one (44) — and Q
-//! about 40 more, the up direction 9, the state 4: about 100 multiplications, one square
-//! root and one division. No dense 10×10 product.
+//! Cost per step, n = 10, counted from the code: F P Fᵀ touches only the rows and columns
+//! of position and bias — the 10 upper-triangle elements (diagonal included) between two of
+//! them take two multiplications, the 24 between one of them and another state take one
+//! (44); Q's elements 21, the acceleration tensor 18, the clock and bias terms 12, the up
+//! direction 6, the state 4: about 105 multiplications, four divisions (two by 3) and one
+//! square root. A dense F P Fᵀ would take 2·n³ = 2,000. Stack: the new state and diagonal
+//! and the noise terms, about 300 bytes.
 
 use core::fmt;
 
@@ -219,6 +222,7 @@ impl FilterState {
     /// Predicts the state `dt_s` seconds ahead with the process noise `noise`. The caller
     /// converts its integer time step to seconds once and states the longest step it
     /// accepts (`max_dt_s`; a longer gap calls for a fresh fix instead).
+    /// The acceleration noise is rotated from east/north/up at the position before the step.
     ///
     /// # Errors
     /// [`PredictError::InvalidStep`] for a step that is not finite or not above zero,
