@@ -349,30 +349,17 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         cand_index: &[usize],
         sats: &mut [SatUse],
     ) -> Option<Velocity> {
-        let mut rows: Vec<RateRow, N> = Vec::new();
-        let mut which: Vec<usize, N> = Vec::new();
-        for ((c, o), &i) in cands.iter().zip(outcomes).zip(cand_index) {
-            if let (true, Some(rate)) = (o.used, c.range_rate_mps) {
-                let row = RateRow {
-                    los: [-o.row[0], -o.row[1], -o.row[2]],
-                    sat_vel: c.vel,
-                    sat_drift_mps: c.clock_drift_mps,
-                    range_rate_mps: rate,
-                    sigma_mps: self.config.snapshot.doppler_sigma_mps * f64::from(c.cn0_factor),
-                };
-                // Both capacities are N, one push per candidate.
-                if rows.push(row).is_ok() {
-                    let _ = which.push(i);
-                }
-            }
-        }
+        let sigma = self.config.snapshot.doppler_sigma_mps;
+        let rows = cands
+            .iter()
+            .zip(outcomes)
+            .filter_map(|(c, o)| RateRow::of(c, o, sigma));
         let frame = LocalFrame::new(fix.ecef_m, &fix.geodetic);
-        let mut residuals = [0.0f64; N];
-        let v = solve_velocity(&rows, &frame, &mut residuals)?;
-        for (&i, r) in which.iter().zip(residuals.iter()) {
-            if let Some(s) = sats.get_mut(i) {
+        let v = solve_velocity(rows, &frame)?;
+        for ((c, o), &i) in cands.iter().zip(outcomes).zip(cand_index) {
+            if let (Some(row), Some(s)) = (RateRow::of(c, o, sigma), sats.get_mut(i)) {
                 s.doppler = DopplerUse::Used {
-                    residual_mps: *r as f32,
+                    residual_mps: row.residual(v.ecef_mps, v.clock_drift_mps) as f32,
                 };
             }
         }

@@ -1,5 +1,6 @@
-//! The engine's only matrix kernels: a 6×6 symmetric positive-definite factorisation, solve
-//! and inverse, in place on plain arrays.
+//! The engine's only matrix kernels: a symmetric positive-definite (Cholesky) factorisation,
+//! solve and inverse of any fixed size `D`, in place on plain arrays (6×6 for the position
+//! solution, 4×4 for the velocity).
 //!
 //! Why hand-written rather than nalgebra (which the engine used at first): these kernels have
 //! no dimension assertions, so the engine is free of panic paths whatever the optimisation
@@ -8,24 +9,27 @@
 //! They are checked against nalgebra on random normal matrices in
 //! `host-tests/tests/linalg.rs`.
 //!
-//! Cost: factorisation 6³/6 ≈ 36 multiply-adds and 6 square roots; solve 36 multiply-adds;
-//! inverse six solves.
+//! Cost for size D: factorisation D³/6 multiply-adds and D square roots (6×6: 36 and 6);
+//! solve D² multiply-adds; inverse D solves.
 
-/// A 6×6 matrix, row-major.
-pub type Mat6 = [[f64; 6]; 6];
+/// A D×D matrix, row-major.
+pub type Mat<const D: usize> = [[f64; D]; D];
 
-fn at(m: &Mat6, i: usize, j: usize) -> f64 {
+/// A 6×6 matrix, row-major (the position solution's size).
+pub type Mat6 = Mat<6>;
+
+fn at<const D: usize>(m: &Mat<D>, i: usize, j: usize) -> f64 {
     m.get(i).and_then(|r| r.get(j)).copied().unwrap_or(0.0)
 }
 
-fn set(m: &mut Mat6, i: usize, j: usize, v: f64) {
+fn set<const D: usize>(m: &mut Mat<D>, i: usize, j: usize, v: f64) {
     if let Some(x) = m.get_mut(i).and_then(|r| r.get_mut(j)) {
         *x = v;
     }
 }
 
 /// Adds `v` to element (i, j); indices outside the matrix are ignored.
-pub fn add(m: &mut Mat6, i: usize, j: usize, v: f64) {
+pub fn add<const D: usize>(m: &mut Mat<D>, i: usize, j: usize, v: f64) {
     if let Some(x) = m.get_mut(i).and_then(|r| r.get_mut(j)) {
         *x += v;
     }
@@ -33,16 +37,19 @@ pub fn add(m: &mut Mat6, i: usize, j: usize, v: f64) {
 
 /// The lower-triangular Cholesky factor L of a symmetric positive-definite matrix (A = LLᵀ).
 #[derive(Clone, Copy, Debug, PartialEq)]
-pub struct Cholesky6 {
-    l: Mat6,
+pub struct Cholesky<const D: usize> {
+    l: Mat<D>,
 }
 
-impl Cholesky6 {
+/// The 6×6 factorisation of the position solution.
+pub type Cholesky6 = Cholesky<6>;
+
+impl<const D: usize> Cholesky<D> {
     /// Factorises the lower triangle of `a`. `None` when a pivot is not positive and finite
     /// (the matrix is not positive definite, or holds NaN).
-    pub fn new(a: &Mat6) -> Option<Self> {
-        let mut l = [[0.0; 6]; 6];
-        for j in 0..6 {
+    pub fn new(a: &Mat<D>) -> Option<Self> {
+        let mut l = [[0.0; D]; D];
+        for j in 0..D {
             let mut d = at(a, j, j);
             for k in 0..j {
                 let v = at(&l, j, k);
@@ -53,7 +60,7 @@ impl Cholesky6 {
             }
             let djj = libm::sqrt(d);
             set(&mut l, j, j, djj);
-            for i in j.saturating_add(1)..6 {
+            for i in j.saturating_add(1)..D {
                 let mut s = at(a, i, j);
                 for k in 0..j {
                     s -= at(&l, i, k) * at(&l, j, k);
@@ -61,14 +68,14 @@ impl Cholesky6 {
                 set(&mut l, i, j, s / djj);
             }
         }
-        Some(Cholesky6 { l })
+        Some(Cholesky { l })
     }
 
     /// Solves A·x = b.
-    pub fn solve(&self, b: &[f64; 6]) -> [f64; 6] {
+    pub fn solve(&self, b: &[f64; D]) -> [f64; D] {
         let l = &self.l;
-        let mut y = [0.0; 6];
-        for i in 0..6 {
+        let mut y = [0.0; D];
+        for i in 0..D {
             let mut s = b.get(i).copied().unwrap_or(0.0);
             for k in 0..i {
                 s -= at(l, i, k) * y.get(k).copied().unwrap_or(0.0);
@@ -77,10 +84,10 @@ impl Cholesky6 {
                 *v = s / at(l, i, i);
             }
         }
-        let mut x = [0.0; 6];
-        for i in (0..6).rev() {
+        let mut x = [0.0; D];
+        for i in (0..D).rev() {
             let mut s = y.get(i).copied().unwrap_or(0.0);
-            for k in i.saturating_add(1)..6 {
+            for k in i.saturating_add(1)..D {
                 s -= at(l, k, i) * x.get(k).copied().unwrap_or(0.0);
             }
             if let Some(v) = x.get_mut(i) {
@@ -91,10 +98,10 @@ impl Cholesky6 {
     }
 
     /// A⁻¹, column by column.
-    pub fn inverse(&self) -> Mat6 {
-        let mut inv = [[0.0; 6]; 6];
-        for c in 0..6 {
-            let mut e = [0.0; 6];
+    pub fn inverse(&self) -> Mat<D> {
+        let mut inv = [[0.0; D]; D];
+        for c in 0..D {
+            let mut e = [0.0; D];
             if let Some(v) = e.get_mut(c) {
                 *v = 1.0;
             }

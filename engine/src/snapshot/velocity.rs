@@ -7,11 +7,13 @@
 //! and ḋ_sat the satellite's (both in m/s). One receiver drift serves every system: the
 //! systems share the receiver's oscillator. Unknowns v_rx (3) and ḋ_rx (1); rows [−u, 1].
 //!
-//! Cost per satellite: a rank-one update at 4×4 entries; one 6×6 Cholesky (two unknowns
-//! pinned) and its inverse per epoch.
+//! Cost per satellite: a rank-one update of the 4×4 normal matrix (and one dot product for
+//! its residual); one 4×4 Cholesky and its inverse per epoch. No buffer: the rows are made
+//! twice from the candidates, once for the normal equations, once for the residuals.
 
 use crate::frames::{dot, LocalFrame};
-use crate::linalg::{add, Cholesky6, Mat6};
+use crate::linalg::{add, Cholesky, Mat};
+use crate::snapshot::wls::{Candidate, Outcome};
 use crate::solution::Velocity;
 
 /// One satellite's range rate, ready for the velocity solution.
@@ -19,67 +21,83 @@ use crate::solution::Velocity;
 pub(crate) struct RateRow {
     /// Unit line of sight from the receiver to the satellite, ECEF.
     pub los: [f64; 3],
-    /// Satellite velocity, ECEF m/s.
-    pub sat_vel: [f64; 3],
-    /// Satellite clock drift, m/s.
-    pub sat_drift_mps: f64,
-    /// Measured range rate −λ·D, m/s.
-    pub range_rate_mps: f64,
+    /// The range rate with the satellite's motion and clock drift removed, m/s:
+    /// −λ·D − u·v_sat + ḋ_sat = −u·v_rx + ḋ_rx.
+    pub reduced_mps: f64,
     /// Its standard deviation, m/s.
     pub sigma_mps: f64,
 }
 
 impl RateRow {
-    /// The range rate with the satellite's motion and clock drift removed: −u·v_rx + ḋ_rx.
-    fn reduced(&self) -> f64 {
-        self.range_rate_mps - dot(self.los, self.sat_vel) + self.sat_drift_mps
+    /// The row of a candidate the position solution used and whose Doppler is usable;
+    /// `sigma_mps` is the Doppler σ at the reference C/N0.
+    pub fn of(c: &Candidate, o: &Outcome, sigma_mps: f64) -> Option<RateRow> {
+        let rate = c.range_rate_mps.filter(|_| o.used)?;
+        let los = [-o.row[0], -o.row[1], -o.row[2]];
+        Some(RateRow {
+            los,
+            reduced_mps: rate - dot(los, c.vel) + c.clock_drift_mps,
+            sigma_mps: sigma_mps * f64::from(c.cn0_factor),
+        })
+    }
+
+    /// Post-fit residual against velocity `v` and drift `drift`, m/s.
+    pub fn residual(&self, v: [f64; 3], drift: f64) -> f64 {
+        self.reduced_mps - (-dot(self.los, v) + drift)
     }
 }
 
-/// The velocity and clock drift from `rows` (at least four), expressed also in the local
-/// frame `frame`; `residuals` receives the post-fit residual of each row (m/s).
+/// The velocity and clock drift from the rows `rows` yields (at least four), also in the
+/// local frame `frame`.
+#[inline(never)]
 pub(crate) fn solve_velocity(
-    rows: &[RateRow],
+    rows: impl Iterator<Item = RateRow>,
     frame: &LocalFrame,
-    residuals: &mut [f64],
 ) -> Option<Velocity> {
-    if rows.len() < 4 {
-        return None;
-    }
-    let mut normal: Mat6 = [[0.0; 6]; 6];
-    let mut rhs = [0.0f64; 6];
+    let mut normal: Mat<4> = [[0.0; 4]; 4];
+    let mut rhs = [0.0f64; 4];
+    let mut used = 0u8;
     for r in rows {
         let h = [-r.los[0], -r.los[1], -r.los[2], 1.0];
         let w = 1.0 / (r.sigma_mps * r.sigma_mps);
-        let y = r.reduced();
         for (i, a) in h.iter().enumerate() {
             for (j, b) in h.iter().enumerate() {
                 add(&mut normal, i, j, a * b * w);
             }
             if let Some(x) = rhs.get_mut(i) {
-                *x += a * y * w;
+                *x += a * r.reduced_mps * w;
             }
         }
+        used = used.saturating_add(1);
     }
-    // Two unknowns of the 6×6 kernel are not used here: pin them.
-    add(&mut normal, 4, 4, 1.0);
-    add(&mut normal, 5, 5, 1.0);
-    let chol = Cholesky6::new(&normal)?;
-    let x = chol.solve(&rhs);
-    if x.iter().any(|v| !v.is_finite()) {
+    if used < 4 {
         return None;
     }
-    let v = [x[0], x[1], x[2]];
-    for (r, out) in rows.iter().zip(residuals.iter_mut()) {
-        *out = r.reduced() - (-dot(r.los, v) + x[3]);
+    let chol = Cholesky::new(&normal)?;
+    let [vx, vy, vz, drift] = chol.solve(&rhs);
+    let v = [vx, vy, vz];
+    if !v.iter().chain([&drift]).all(|x| x.is_finite()) {
+        return None;
     }
     let inv = chol.inverse();
-    let cov = crate::snapshot::wls::enu_block(frame, &inv);
+    let mut cov = [[0.0; 3]; 3];
+    for (a, ra) in cov.iter_mut().zip(frame.axes) {
+        for (c, rb) in a.iter_mut().zip(frame.axes) {
+            let mut s = 0.0;
+            for (i, x) in ra.iter().enumerate() {
+                for (j, y) in rb.iter().enumerate() {
+                    let q = inv.get(i).and_then(|r| r.get(j)).copied().unwrap_or(0.0);
+                    s += x * q * y;
+                }
+            }
+            *c = s;
+        }
+    }
     Some(Velocity {
         ecef_mps: v,
         enu_mps: frame.rotate(v),
-        clock_drift_mps: x[3],
+        clock_drift_mps: drift,
         covariance_enu_m2s2: cov,
-        used: u8::try_from(rows.len()).unwrap_or(u8::MAX),
+        used,
     })
 }
