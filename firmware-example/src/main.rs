@@ -30,8 +30,10 @@ const N: usize = 12;
 /// Observations per epoch.
 #[cfg(feature = "n24")]
 const N: usize = 24;
-/// Ephemeris slots: enough for every GPS satellite, or the satellites in view of two systems.
-const EPH: usize = 32;
+/// Ephemeris slots: the satellites in view of two or three systems (about 8–12 each), with
+/// margin; the store replaces the record with the oldest toe when full. 24 rather than 32
+/// since the Doppler velocity took 1.6 KiB more stack (see docs/firmware.md).
+const EPH: usize = 24;
 /// Frame buffer for epochs of `N` observations.
 const B: usize = buffer_for(N);
 
