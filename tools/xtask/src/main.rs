@@ -18,7 +18,8 @@
 //!    with the measurements; rustfmt and clippy on it; the panic-free link check;
 //! 7. every test of the workspace (release mode: the real-data replays are faster);
 //! 8. the benchmarks compile;
-//! 9. with pinned Python packages: the reference vectors (frames, models, exported times)
+//! 9. with pinned Python packages: the reference vectors (frames, models, exported times,
+//!    the Kalman filter core against filterpy)
 //!    regenerated and compared with the committed files; the demo report's GPX validated
 //!    against the GPX 1.1 schema, its NMEA parsed by pynmea2 and its times compared with
 //!    astropy's (skipped, loudly, where Python is absent).
