@@ -233,8 +233,8 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             if let Some(s) = sats.get_mut(i) {
                 if let Some((el, az)) = o.el_az {
                     s.elevation_deg = Some(el.to_degrees());
-                    let az = az.to_degrees();
-                    s.azimuth_deg = Some(if az < 0.0 { az + 360.0 } else { az });
+                    s.azimuth_deg =
+                        Some(crate::frames::azimuth_from_atan2(az.into()).to_degrees() as f32);
                 }
                 if o.masked {
                     s.status = SatStatus::BelowMask;
@@ -309,16 +309,10 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         if held.eph.health != 0 {
             return Err(SatStatus::Unhealthy);
         }
-        let tau = pr / SPEED_OF_LIGHT;
-        let dt_toe = t_rx.seconds_since(held.toe) - tau;
-        if dt_toe.abs() > cfg.nav.max_ephemeris_age_s {
+        if held.age_at_transmit_s(t_rx, pr).abs() > cfg.nav.max_ephemeris_age_s {
             return Err(SatStatus::Stale);
         }
-        let dt_toc = t_rx.seconds_since(held.toc) - tau;
-        // Transmit time by the satellite clock, then corrected to system time
-        // (IS-GPS-200 §20.3.3.3.3.1: t = tsv − Δtsv, one iteration suffices).
-        let dtsv = held.eph.clock_polynomial_s(dt_toc);
-        let state = held.eph.evaluate(dt_toe - dtsv, dt_toc - dtsv);
+        let state = held.state_at_transmit(t_rx, pr);
         let clock_s = state.clock_s - held.eph.group_delay_s(obs.signal);
         // σ grows as √(10^(deficit/10)) = 10^(deficit/20); single precision is ample for a
         // weight.

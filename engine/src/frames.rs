@@ -134,11 +134,19 @@ impl LocalFrame {
     /// position `target` seen from the origin, radians.
     pub fn az_el(&self, target: [f64; 3]) -> (f64, f64) {
         let [e, n, u] = self.enu(target);
-        let mut az = atan2(e, n);
-        if az < 0.0 {
-            az += 2.0 * core::f64::consts::PI;
-        }
-        (az, atan2(u, sqrt(e * e + n * n)))
+        (
+            azimuth_from_atan2(atan2(e, n)),
+            atan2(u, sqrt(e * e + n * n)),
+        )
+    }
+}
+
+/// An azimuth from `atan2(east, north)` (−π…π) moved into 0…2π, radians.
+pub fn azimuth_from_atan2(az: f64) -> f64 {
+    if az < 0.0 {
+        az + 2.0 * core::f64::consts::PI
+    } else {
+        az
     }
 }
 

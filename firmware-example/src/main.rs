@@ -21,7 +21,7 @@ use cortex_m_semihosting::debug;
 use power::{DelaySleep, LowPower, NoDelay};
 use source::{MeasurementSource, SourceError};
 use trackfix_engine::wire::{buffer_for, Message};
-use trackfix_engine::{Engine, Epoch, FixOutcome, Solution, SPEED_OF_LIGHT};
+use trackfix_engine::{Engine, Epoch, FixOutcome, Solution};
 use uart::ReplayUart;
 
 /// Observations per epoch.
@@ -73,8 +73,7 @@ impl<const N: usize> FixSink<N> for LogSink {
 fn satellite_states<const N: usize, const E: usize>(engine: &Engine<N, E>, epoch: &Epoch<N>) {
     for o in &epoch.obs {
         if let Some(s) = engine.store().get(o.sat) {
-            let dt = epoch.time.seconds_since(s.toe) - o.pseudorange_m / SPEED_OF_LIGHT;
-            core::hint::black_box(s.eph.evaluate(dt, dt));
+            core::hint::black_box(s.state_at_transmit(epoch.time, o.pseudorange_m));
         }
     }
 }

@@ -38,39 +38,22 @@ impl IonoCoefficients {
         el_rad: f64,
         tow_s: f64,
     ) -> f64 {
-        #[expect(
-            clippy::approx_constant,
-            reason = "IS-GPS-200 specifies this value of π"
-        )]
-        const PI: f64 = 3.141_592_653_589_8;
-        let e = el_rad / PI; // semicircles
-        let phi_u = lat_rad / PI;
-        let lam_u = lon_rad / PI;
-        let psi = 0.0137 / (e + 0.11) - 0.022;
-        let phi_i = (phi_u + psi * cos(az_rad)).clamp(-0.416, 0.416);
-        let lam_i = lam_u + psi * libm::sin(az_rad) / cos(phi_i * PI);
-        let phi_m = phi_i + 0.064 * cos((lam_i - 1.617) * PI);
-        let t = (43_200.0 * lam_i + tow_s) % 86_400.0;
-        let t = if t < 0.0 { t + 86_400.0 } else { t };
-        let f = 1.0 + 16.0 * (0.53 - e) * (0.53 - e) * (0.53 - e);
-        let poly = |c: &[f64; 4]| c[0] + phi_m * (c[1] + phi_m * (c[2] + phi_m * c[3]));
-        let amp = poly(&self.alpha).max(0.0);
-        let per = poly(&self.beta).max(72_000.0);
-        let x = 2.0 * PI * (t - 50_400.0) / per;
-        let delay_s = if x.abs() < 1.57 {
-            f * (5e-9 + amp * (1.0 - x * x / 2.0 + x * x * x * x / 24.0))
-        } else {
-            f * 5e-9
-        };
-        delay_s * SPEED_OF_LIGHT
+        let c = self.map(|v| v);
+        klobuchar(
+            &c,
+            lat_rad,
+            lon_rad,
+            libm::sin(az_rad),
+            cos(az_rad),
+            el_rad,
+            tow_s,
+        ) * SPEED_OF_LIGHT
     }
-}
 
-impl IonoCoefficients {
     /// The same model in single precision, for the per-epoch path on an FPU that has only
-    /// f32 (Cortex-M4F): azimuth enters through its sine and cosine (no atan2 needed), the
-    /// time of week through the local-time term only. `iono_tests.rs` bounds the difference
-    /// from [`IonoCoefficients::delay_l1_m`] at 1 mm over the whole model domain.
+    /// f32 (Cortex-M4F): azimuth enters through its sine and cosine (no atan2 needed). One
+    /// implementation serves both precisions; `iono_tests.rs` bounds the difference at 1 mm
+    /// over the whole model domain.
     pub fn delay_l1_m_f32(
         &self,
         lat_rad: f32,
@@ -80,29 +63,115 @@ impl IonoCoefficients {
         el_rad: f32,
         tow_s: f64,
     ) -> f32 {
-        const PI: f32 = core::f32::consts::PI;
-        let e = el_rad / PI;
-        let psi = 0.0137 / (e + 0.11) - 0.022;
-        let phi_i = (lat_rad / PI + psi * cos_az).clamp(-0.416, 0.416);
-        let lam_i = lon_rad / PI + psi * sin_az / libm::cosf(phi_i * PI);
-        let phi_m = phi_i + 0.064 * libm::cosf((lam_i - 1.617) * PI);
-        // Local time in f64 first: the time of week needs 20 bits before the reduction.
-        let t = (43_200.0 * f64::from(lam_i) + tow_s) % 86_400.0;
-        let t = (if t < 0.0 { t + 86_400.0 } else { t }) as f32;
-        let f = 1.0 + 16.0 * (0.53 - e) * (0.53 - e) * (0.53 - e);
-        let poly = |c: &[f64; 4]| {
-            let c = c.map(|x| x as f32);
-            c[0] + phi_m * (c[1] + phi_m * (c[2] + phi_m * c[3]))
-        };
-        let amp = poly(&self.alpha).max(0.0);
-        let per = poly(&self.beta).max(72_000.0);
-        let x = 2.0 * PI * (t - 50_400.0) / per;
-        let delay_s = if x.abs() < 1.57 {
-            f * (5e-9 + amp * (1.0 - x * x / 2.0 + x * x * x * x / 24.0))
-        } else {
-            f * 5e-9
-        };
-        delay_s * 299_792_458.0
+        let c = self.map(|v| v as f32);
+        klobuchar(&c, lat_rad, lon_rad, sin_az, cos_az, el_rad, tow_s) * SPEED_OF_LIGHT as f32
+    }
+
+    fn map<T: Copy>(&self, f: impl Fn(f64) -> T) -> ([T; 4], [T; 4]) {
+        (self.alpha.map(&f), self.beta.map(&f))
+    }
+}
+
+/// The arithmetic the model needs, in the precision of the caller.
+trait Real:
+    Copy
+    + PartialOrd
+    + core::ops::Add<Output = Self>
+    + core::ops::Sub<Output = Self>
+    + core::ops::Mul<Output = Self>
+    + core::ops::Div<Output = Self>
+{
+    fn of(v: f64) -> Self;
+    fn to_f64(self) -> f64;
+    fn cos(self) -> Self;
+    fn abs(self) -> Self;
+}
+
+impl Real for f64 {
+    fn of(v: f64) -> Self {
+        v
+    }
+    fn to_f64(self) -> f64 {
+        self
+    }
+    fn cos(self) -> Self {
+        libm::cos(self)
+    }
+    fn abs(self) -> Self {
+        libm::fabs(self)
+    }
+}
+
+impl Real for f32 {
+    fn of(v: f64) -> Self {
+        v as f32
+    }
+    fn to_f64(self) -> f64 {
+        f64::from(self)
+    }
+    fn cos(self) -> Self {
+        libm::cosf(self)
+    }
+    fn abs(self) -> Self {
+        libm::fabsf(self)
+    }
+}
+
+/// IS-GPS-200 Figure 20-4 in precision `T`: the L1 delay in seconds.
+#[expect(
+    clippy::arithmetic_side_effects,
+    reason = "T is f32 or f64 (the only implementations of Real): float arithmetic cannot panic"
+)]
+fn klobuchar<T: Real>(
+    (alpha, beta): &([T; 4], [T; 4]),
+    lat_rad: T,
+    lon_rad: T,
+    sin_az: T,
+    cos_az: T,
+    el_rad: T,
+    tow_s: f64,
+) -> T {
+    #[expect(
+        clippy::approx_constant,
+        reason = "IS-GPS-200 specifies this value of π"
+    )]
+    let pi = T::of(3.141_592_653_589_8);
+    let n = T::of;
+    let e = el_rad / pi; // semicircles
+    let psi = n(0.0137) / (e + n(0.11)) - n(0.022);
+    let phi_i = clamp(lat_rad / pi + psi * cos_az, n(-0.416), n(0.416));
+    let lam_i = lon_rad / pi + psi * sin_az / (phi_i * pi).cos();
+    let phi_m = phi_i + n(0.064) * ((lam_i - n(1.617)) * pi).cos();
+    // Local time in f64 whatever T is: the time of week needs 20 bits before the reduction.
+    let t = (43_200.0 * lam_i.to_f64() + tow_s) % 86_400.0;
+    let t = T::of(if t < 0.0 { t + 86_400.0 } else { t });
+    let f = n(1.0) + n(16.0) * (n(0.53) - e) * (n(0.53) - e) * (n(0.53) - e);
+    let poly = |&[c0, c1, c2, c3]: &[T; 4]| c0 + phi_m * (c1 + phi_m * (c2 + phi_m * c3));
+    let amp = max(poly(alpha), n(0.0));
+    let per = max(poly(beta), n(72_000.0));
+    let x = n(2.0) * pi * (t - n(50_400.0)) / per;
+    if x.abs() < n(1.57) {
+        f * (n(5e-9) + amp * (n(1.0) - x * x / n(2.0) + x * x * x * x / n(24.0)))
+    } else {
+        f * n(5e-9)
+    }
+}
+
+fn clamp<T: Real>(v: T, lo: T, hi: T) -> T {
+    if v < lo {
+        lo
+    } else if v > hi {
+        hi
+    } else {
+        v
+    }
+}
+
+fn max<T: Real>(a: T, b: T) -> T {
+    if a > b {
+        a
+    } else {
+        b
     }
 }
 

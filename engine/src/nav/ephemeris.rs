@@ -129,12 +129,36 @@ impl From<TimeError> for EphemerisError {
 }
 
 impl BroadcastEphemeris {
-    /// Checks every field a malformed or corrupted message could break.
-    ///
-    /// # Errors
-    /// The first problem found, as an [`EphemerisError`].
-    pub fn validate(&self) -> Result<(), EphemerisError> {
-        let fields = [
+    /// Names of the real-valued fields, in the order of [`BroadcastEphemeris::fields`] (the
+    /// wire frame's order too).
+    pub const FIELD_NAMES: [&'static str; 22] = [
+        "toe_s",
+        "toc_s",
+        "af0",
+        "af1",
+        "af2",
+        "sqrt_a",
+        "e",
+        "i0",
+        "idot",
+        "omega0",
+        "omega_dot",
+        "omega",
+        "m0",
+        "delta_n",
+        "cuc",
+        "cus",
+        "crc",
+        "crs",
+        "cic",
+        "cis",
+        "tgd_s",
+        "tgd2_s",
+    ];
+
+    /// The real-valued fields, in the order of [`BroadcastEphemeris::FIELD_NAMES`].
+    pub fn fields(&self) -> [f64; 22] {
+        [
             self.toe_s,
             self.toc_s,
             self.af0,
@@ -157,7 +181,48 @@ impl BroadcastEphemeris {
             self.cis,
             self.tgd_s,
             self.tgd2_s,
-        ];
+        ]
+    }
+
+    /// This record with its real-valued fields replaced by `v`, in the order of
+    /// [`BroadcastEphemeris::FIELD_NAMES`].
+    #[must_use]
+    pub fn with_fields(self, v: [f64; 22]) -> Self {
+        let [toe_s, toc_s, af0, af1, af2, sqrt_a, e, i0, idot, omega0, omega_dot, omega, m0, delta_n, cuc, cus, crc, crs, cic, cis, tgd_s, tgd2_s] =
+            v;
+        BroadcastEphemeris {
+            toe_s,
+            toc_s,
+            af0,
+            af1,
+            af2,
+            sqrt_a,
+            e,
+            i0,
+            idot,
+            omega0,
+            omega_dot,
+            omega,
+            m0,
+            delta_n,
+            cuc,
+            cus,
+            crc,
+            crs,
+            cic,
+            cis,
+            tgd_s,
+            tgd2_s,
+            ..self
+        }
+    }
+
+    /// Checks every field a malformed or corrupted message could break.
+    ///
+    /// # Errors
+    /// The first problem found, as an [`EphemerisError`].
+    pub fn validate(&self) -> Result<(), EphemerisError> {
+        let fields = self.fields();
         if fields.iter().any(|v| !v.is_finite()) {
             return Err(EphemerisError::NotFinite);
         }
@@ -306,7 +371,7 @@ impl BroadcastEphemeris {
         SatState {
             pos,
             vel,
-            clock_s: self.af0 + self.af1 * dt + self.af2 * dt * dt + relativity_s,
+            clock_s: self.clock_polynomial_s(dt_toc_s) + relativity_s,
             clock_drift: self.af1 + 2.0 * self.af2 * dt,
             relativity_s,
             ecc_anomaly: ek,

@@ -13,8 +13,8 @@
 //! The store never looks at wall time: a replay must feed records in the order a receiver
 //! would have decoded them (by transmission time), so no record is used before it existed.
 
-use crate::nav::ephemeris::{BroadcastEphemeris, EphemerisError};
-use crate::sat::SatId;
+use crate::nav::ephemeris::{BroadcastEphemeris, EphemerisError, SatState};
+use crate::sat::{SatId, SPEED_OF_LIGHT};
 use crate::time::GnssTime;
 use heapless::Vec;
 
@@ -43,6 +43,26 @@ pub struct StoredEphemeris {
     pub toe: GnssTime,
     /// toc on the GPS time line.
     pub toc: GnssTime,
+}
+
+impl StoredEphemeris {
+    /// Seconds from toe to the transmit time of a signal received at `t_rx` with
+    /// pseudorange `pr_m` (the age the staleness test uses).
+    pub fn age_at_transmit_s(&self, t_rx: GnssTime, pr_m: f64) -> f64 {
+        t_rx.seconds_since(self.toe) - pr_m / SPEED_OF_LIGHT
+    }
+
+    /// The satellite's state at the transmit time of a signal received at `t_rx` with
+    /// pseudorange `pr_m`: the time of transmission by the satellite clock, t_rx − P/c,
+    /// corrected to system time by the clock polynomial (IS-GPS-200 §20.3.3.3.3.1:
+    /// t = tsv − Δtsv, one iteration suffices).
+    pub fn state_at_transmit(&self, t_rx: GnssTime, pr_m: f64) -> SatState {
+        let tau = pr_m / SPEED_OF_LIGHT;
+        let dt_toe = t_rx.seconds_since(self.toe) - tau;
+        let dt_toc = t_rx.seconds_since(self.toc) - tau;
+        let dtsv = self.eph.clock_polynomial_s(dt_toc);
+        self.eph.evaluate(dt_toe - dtsv, dt_toc - dtsv)
+    }
 }
 
 /// Up to `EPH` ephemerides, one per satellite. Memory: `EPH × size_of::<StoredEphemeris>()`

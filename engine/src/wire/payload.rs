@@ -14,30 +14,7 @@ use crate::sat::{SatId, Signal, System};
 use crate::time::GnssTime;
 
 /// Names of the ephemeris f64 fields, in wire order.
-pub const FIELDS: [&str; 22] = [
-    "toe_s",
-    "toc_s",
-    "af0",
-    "af1",
-    "af2",
-    "sqrt_a",
-    "e",
-    "i0",
-    "idot",
-    "omega0",
-    "omega_dot",
-    "omega",
-    "m0",
-    "delta_n",
-    "cuc",
-    "cus",
-    "crc",
-    "crs",
-    "cic",
-    "cis",
-    "tgd_s",
-    "tgd2_s",
-];
+pub const FIELDS: [&str; 22] = BroadcastEphemeris::FIELD_NAMES;
 
 /// The wire code of a signal.
 pub const fn signal_code(s: Signal) -> u8 {
@@ -188,37 +165,17 @@ pub(super) fn decode<const N: usize>(kind: u8, payload: &[u8]) -> Result<Message
             for x in v.iter_mut() {
                 *x = r.f64()?;
             }
-            let [toe_s, toc_s, af0, af1, af2, sqrt_a, e, i0, idot, omega0, omega_dot, omega, m0, delta_n, cuc, cus, crc, crs, cic, cis, tgd_s, tgd2_s] =
-                v;
-            Message::Ephemeris(BroadcastEphemeris {
-                sat: SatId { system, prn },
-                week,
-                toe_s,
-                toc_s,
-                af0,
-                af1,
-                af2,
-                sqrt_a,
-                e,
-                i0,
-                idot,
-                omega0,
-                omega_dot,
-                omega,
-                m0,
-                delta_n,
-                cuc,
-                cus,
-                crc,
-                crs,
-                cic,
-                cis,
-                tgd_s,
-                tgd2_s,
-                iode,
-                iodc,
-                health,
-            })
+            Message::Ephemeris(
+                BroadcastEphemeris {
+                    sat: SatId { system, prn },
+                    week,
+                    iode,
+                    iodc,
+                    health,
+                    ..BroadcastEphemeris::default()
+                }
+                .with_fields(v),
+            )
         }
         3 => {
             let mut v = [0.0f64; 8];
@@ -301,30 +258,7 @@ pub fn encode_ephemeris(e: &BroadcastEphemeris, out: &mut [u8]) -> Result<usize,
         for v in [week, e.iode, e.iodc, e.health] {
             w.put(&v.to_le_bytes())?;
         }
-        let v = [
-            e.toe_s,
-            e.toc_s,
-            e.af0,
-            e.af1,
-            e.af2,
-            e.sqrt_a,
-            e.e,
-            e.i0,
-            e.idot,
-            e.omega0,
-            e.omega_dot,
-            e.omega,
-            e.m0,
-            e.delta_n,
-            e.cuc,
-            e.cus,
-            e.crc,
-            e.crs,
-            e.cic,
-            e.cis,
-            e.tgd_s,
-            e.tgd2_s,
-        ];
+        let v = e.fields();
         for x in v {
             w.put(&x.to_le_bytes())?;
         }
