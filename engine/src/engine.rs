@@ -213,7 +213,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         }
 
         let hold_height_m = self.anchor.and_then(|a| {
-            (epoch.time.seconds_since(a.time) <= self.config.snapshot.altitude_hold_max_age_s)
+            (epoch.time.since(a.time).as_secs_f64() <= self.config.snapshot.altitude_hold_max_age_s)
                 .then_some(a.height_m)
         });
         let setup = Setup {

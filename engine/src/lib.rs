@@ -29,6 +29,7 @@
 // Shared ground: identities and constants, time, frames, small linear algebra, the
 // configuration, the solution and the wire frame.
 pub mod config;
+pub mod duration;
 mod errors;
 pub mod frames;
 pub mod linalg;
@@ -52,6 +53,7 @@ pub use measurements::observation;
 pub use nav::{ephemeris, store};
 
 pub use config::Config;
+pub use duration::Duration;
 pub use engine::{Engine, EpochError, InputError};
 pub use ephemeris::{BroadcastEphemeris, EphemerisError, SatState};
 pub use frames::{Geodetic, LocalFrame};
