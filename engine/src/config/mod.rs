@@ -1,6 +1,5 @@
 //! Every tunable of the engine, as plain data with documented defaults, one part per stage
-//! ([`MeasurementConfig`], [`NavConfig`], [`CorrectionConfig`], [`SnapshotConfig`],
-//! [`FilterConfig`]).
+//! ([`MeasurementConfig`], [`NavConfig`], [`CorrectionConfig`], [`SnapshotConfig`]).
 //! [`Config::validate`] names the first field outside its documented range; the engine
 //! refuses such a configuration. With the `serde` feature every part reads from and writes
 //! to TOML (or any serde format) with its defaults for missing keys and an error for
@@ -10,8 +9,8 @@ mod stages;
 mod validate;
 
 pub use stages::{
-    CorrectionConfig, FilterConfig, FilterMode, IonoModel, MeasurementConfig, NavConfig,
-    SnapshotConfig, SystemSet, SystemSignals, TropoModel,
+    CorrectionConfig, IonoModel, MeasurementConfig, NavConfig, SnapshotConfig, SystemSet,
+    SystemSignals, TropoModel,
 };
 pub use validate::{ConfigError, Problem};
 
@@ -33,8 +32,6 @@ pub struct Config {
     pub corrections: CorrectionConfig,
     /// The snapshot (least-squares) solution.
     pub snapshot: SnapshotConfig,
-    /// The navigation filter.
-    pub filter: FilterConfig,
 }
 
 impl Config {
@@ -46,7 +43,6 @@ impl Config {
         nav: NavConfig::DEFAULT,
         corrections: CorrectionConfig::DEFAULT,
         snapshot: SnapshotConfig::DEFAULT,
-        filter: FilterConfig::DEFAULT,
     };
 
     /// Whether `system` is enabled.
