@@ -308,9 +308,9 @@ impl FilterState {
 
     /// Whether `P` has a Cholesky factor `L Lᵀ` with positive, finite pivots (positive
     /// definite). Reads the lower triangle. Cost: about n³/6 ≈ 170 multiply-adds and ten
-    /// square roots, on a packed 55-element factor (440 bytes of stack).
+    /// square roots, with the engine's one Cholesky kernel (an 800-byte factor).
     pub fn is_positive_definite(&self) -> bool {
-        cholesky_packed(&self.p).is_some()
+        crate::linalg::Cholesky::<STATE_LEN>::new(&self.p).is_some()
     }
 
     /// Restarts the receiver clock: bias and drift take the given values and variances and
@@ -382,48 +382,6 @@ fn symmetric(p: &Covariance) -> bool {
             (at(p, i, j) - at(p, j, i)).abs() <= SYMMETRY_TOLERANCE * scale
         })
     })
-}
-
-/// Offsets of the rows of a packed lower triangle.
-const ROW_START: [usize; STATE_LEN] = [0, 1, 3, 6, 10, 15, 21, 28, 36, 45];
-/// Elements of a packed lower triangle.
-const PACKED_LEN: usize = 55;
-
-fn packed_index(i: usize, j: usize) -> usize {
-    ROW_START
-        .get(i)
-        .and_then(|s| s.checked_add(j))
-        .unwrap_or(PACKED_LEN)
-}
-
-fn packed_at(l: &[f64; PACKED_LEN], i: usize, j: usize) -> f64 {
-    l.get(packed_index(i, j)).copied().unwrap_or(0.0)
-}
-
-/// The Cholesky factor of the lower triangle of `p`, packed by rows; `None` when a pivot is
-/// not positive and finite.
-fn cholesky_packed(p: &Covariance) -> Option<[f64; PACKED_LEN]> {
-    let mut l = [0.0; PACKED_LEN];
-    for j in 0..STATE_LEN {
-        let mut d = at(p, j, j);
-        for k in 0..j {
-            let v = packed_at(&l, j, k);
-            d -= v * v;
-        }
-        if !(d > 0.0 && d.is_finite()) {
-            return None;
-        }
-        let ljj = libm::sqrt(d);
-        *l.get_mut(packed_index(j, j))? = ljj;
-        for i in j.saturating_add(1)..STATE_LEN {
-            let mut s = at(p, i, j);
-            for k in 0..j {
-                s -= packed_at(&l, i, k) * packed_at(&l, j, k);
-            }
-            *l.get_mut(packed_index(i, j))? = s / ljj;
-        }
-    }
-    Some(l)
 }
 
 #[cfg(test)]

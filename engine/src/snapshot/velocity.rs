@@ -13,7 +13,7 @@
 
 use crate::frames::{dot, LocalFrame};
 use crate::linalg::{add, Cholesky, Mat};
-use crate::snapshot::wls::{Candidate, Outcome};
+use crate::snapshot::wls::{enu_block, Candidate, Outcome};
 use crate::solution::Velocity;
 
 /// One satellite's range rate, ready for the velocity solution.
@@ -79,20 +79,7 @@ pub(crate) fn solve_velocity(
     if !v.iter().chain([&drift]).all(|x| x.is_finite()) {
         return None;
     }
-    let inv = chol.inverse();
-    let mut cov = [[0.0; 3]; 3];
-    for (a, ra) in cov.iter_mut().zip(frame.axes) {
-        for (c, rb) in a.iter_mut().zip(frame.axes) {
-            let mut s = 0.0;
-            for (i, x) in ra.iter().enumerate() {
-                for (j, y) in rb.iter().enumerate() {
-                    let q = inv.get(i).and_then(|r| r.get(j)).copied().unwrap_or(0.0);
-                    s += x * q * y;
-                }
-            }
-            *c = s;
-        }
-    }
+    let cov = enu_block(frame, &chol.inverse());
     Some(Velocity {
         ecef_mps: v,
         enu_mps: frame.rotate(v),

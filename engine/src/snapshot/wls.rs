@@ -20,7 +20,7 @@ use crate::config::{Config, IonoModel, TropoModel};
 use crate::corrections::iono::IonoCoefficients;
 use crate::corrections::tropo::ZenithDelay;
 use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
-use crate::linalg::{add, Cholesky6, Mat6};
+use crate::linalg::{add, Cholesky6, Mat, Mat6};
 use crate::sat::{System, SPEED_OF_LIGHT};
 use crate::solution::{Dop, Fix, FixKind, IonoCorrection, NoFixReason};
 use libm::{sin, sqrt};
@@ -370,9 +370,10 @@ fn finish(
     })
 }
 
-/// The position block of a 6×6 ECEF covariance rotated to east/north/up: R·Q·Rᵀ.
-pub(crate) fn enu_block(frame: &LocalFrame, q6: &Mat6) -> [[f64; 3]; 3] {
-    let q = |i: usize, j: usize| q6.get(i).and_then(|r| r.get(j)).copied().unwrap_or(0.0);
+/// The leading 3×3 block (position or velocity) of an ECEF covariance rotated to
+/// east/north/up: R·Q·Rᵀ.
+pub(crate) fn enu_block<const D: usize>(frame: &LocalFrame, qd: &Mat<D>) -> [[f64; 3]; 3] {
+    let q = |i: usize, j: usize| qd.get(i).and_then(|r| r.get(j)).copied().unwrap_or(0.0);
     let mut out = [[0.0; 3]; 3];
     for (a, ra) in out.iter_mut().zip(frame.axes) {
         for (v, rb) in a.iter_mut().zip(frame.axes) {
