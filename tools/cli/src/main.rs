@@ -52,6 +52,10 @@ enum Command {
         /// Also write a report (plots, exports, JSON summary) into this folder.
         #[arg(long)]
         out: Option<PathBuf>,
+        /// Engine configuration file (TOML, the engine's `Config`; missing keys keep their
+        /// defaults, see docs/architecture.md).
+        #[arg(long)]
+        config: Option<PathBuf>,
     },
     /// Replay a recorded RINEX observation file with its navigation file(s).
     Replay {
@@ -67,12 +71,17 @@ enum Command {
         /// Truth trajectory CSV (gps_week,tow_s,x_m,y_m,z_m; see docs/exports.md).
         #[arg(long)]
         truth_csv: Option<PathBuf>,
-        /// Systems to use, any of g (GPS), e (Galileo), c (BeiDou).
-        #[arg(long, default_value = "ge")]
-        systems: String,
+        /// Systems to use, any of g (GPS), e (Galileo), c (BeiDou). Default "ge", or the
+        /// configuration file's when one is given.
+        #[arg(long)]
+        systems: Option<String>,
         /// Write a report (plots, exports, JSON summary) into this folder.
         #[arg(long)]
         out: Option<PathBuf>,
+        /// Engine configuration file (TOML, the engine's `Config`; missing keys keep their
+        /// defaults).
+        #[arg(long)]
+        config: Option<PathBuf>,
     },
     /// Run one row of the dataset manifest (synthetic or recorded) and write its report.
     Report {
@@ -199,7 +208,9 @@ fn parse_xyz(s: &str) -> Result<[f64; 3], String> {
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let result = match cli.command {
-        Command::Demo { every, out } => demo(every.max(1), out.as_deref()),
+        Command::Demo { every, out, config } => {
+            load_config(config.as_deref()).and_then(|cfg| demo(every.max(1), out.as_deref(), cfg))
+        }
         Command::Replay {
             obs,
             nav,
@@ -207,7 +218,15 @@ fn main() -> ExitCode {
             truth_csv,
             systems,
             out,
-        } => replay_cmd(obs, nav, truth, truth_csv, &systems, out.as_deref()),
+            config,
+        } => load_config(config.as_deref()).and_then(|cfg| {
+            let cfg = match (systems.as_deref(), &config) {
+                (Some(letters), _) => with_system_letters(cfg, letters),
+                (None, Some(_)) => cfg,
+                (None, None) => with_system_letters(cfg, "ge"),
+            };
+            replay_cmd(obs, nav, truth, truth_csv, cfg, out.as_deref())
+        }),
         Command::Report { row, out } => report_cmd(&row, &out),
         Command::Frames { what } => frames_cmd(what),
         Command::Manifest { write_docs } => manifest_cmd(write_docs),
@@ -219,6 +238,34 @@ fn main() -> ExitCode {
             ExitCode::FAILURE
         }
     }
+}
+
+/// The engine configuration: the defaults, or `path` read as TOML and validated. Errors
+/// name the file, and the line and key (unknown key, wrong type) or the field (value out of
+/// its documented range).
+fn load_config(path: Option<&Path>) -> Result<Config, String> {
+    let Some(path) = path else {
+        return Ok(Config::default());
+    };
+    let text = std::fs::read_to_string(path).map_err(|e| format!("{}: {e}", path.display()))?;
+    let cfg: Config = toml::from_str(&text).map_err(|e| format!("{}: {e}", path.display()))?;
+    cfg.validate()
+        .map_err(|e| format!("{}: {e}", path.display()))?;
+    Ok(cfg)
+}
+
+/// `cfg` with only the systems whose letters (g, e, c) appear in `letters`.
+fn with_system_letters(cfg: Config, letters: &str) -> Config {
+    let wanted: Vec<System> = [
+        ('g', System::Gps),
+        ('e', System::Galileo),
+        ('c', System::Beidou),
+    ]
+    .into_iter()
+    .filter(|(letter, _)| letters.contains(*letter))
+    .map(|(_, s)| s)
+    .collect();
+    cfg.with_systems(&wanted)
 }
 
 fn root() -> PathBuf {
@@ -238,11 +285,11 @@ fn print_summary(s: &Summary) {
     }
 }
 
-fn demo(every: usize, out: Option<&Path>) -> Result<(), String> {
+fn demo(every: usize, out: Option<&Path>, cfg: Config) -> Result<(), String> {
     println!("Trackfix demo: pallet tracker PT-0417 on a delivery truck through Old Quay (an invented town)");
     println!("{CAUTION}\n");
     let spec = scenario::parse(DEMO, "built-in demo")?;
-    let records = scenario::run(&spec, Config::default())?;
+    let records = scenario::run(&spec, cfg)?;
     println!(
         "{:>7} {:>11} {:>11} {:>7} {:>6} {:>6} {:>6} {:>4} {:>5} fix",
         "t s", "lat °", "lon °", "h m", "E m", "N m", "U m", "sats", "HDOP"
@@ -286,20 +333,10 @@ fn replay_cmd(
     nav: Vec<PathBuf>,
     truth: Option<[f64; 3]>,
     truth_csv: Option<PathBuf>,
-    systems: &str,
+    cfg: Config,
     out: Option<&Path>,
 ) -> Result<(), String> {
     println!("{CAUTION}");
-    let wanted: Vec<System> = [
-        ('g', System::Gps),
-        ('e', System::Galileo),
-        ('c', System::Beidou),
-    ]
-    .into_iter()
-    .filter(|(letter, _)| systems.contains(*letter))
-    .map(|(_, s)| s)
-    .collect();
-    let cfg = Config::default().with_systems(&wanted);
     let truth = match (truth, truth_csv) {
         (Some(m), _) => Some(Truth::Marker(m)),
         (None, Some(p)) => Some(Truth::Trajectory(read_truth_csv(&p)?)),
@@ -374,5 +411,45 @@ fn manifest_cmd(write_docs: bool) -> Result<(), String> {
         Ok(())
     } else {
         Err("a row crossed its threshold".into())
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn file(name: &str, text: &str) -> PathBuf {
+        let dir = std::env::temp_dir().join(format!("trackfix-cli-{}", std::process::id()));
+        std::fs::create_dir_all(&dir).unwrap();
+        let p = dir.join(name);
+        std::fs::write(&p, text).unwrap();
+        p
+    }
+
+    // A configuration file: read with defaults for what it leaves out; an unknown key or a
+    // value out of range refused naming the file and the line and key, or the field.
+    #[test]
+    fn configuration_files_are_read_or_refused_by_name() {
+        let ok = file("ok.toml", "[snapshot]\nelevation_mask_deg = 15.0\n");
+        let c = load_config(Some(&ok)).unwrap();
+        assert_eq!(c.snapshot.elevation_mask_deg, 15.0);
+        assert_eq!(c.nav, Config::default().nav);
+
+        let unknown = file("unknown.toml", "[snapshot]\nmask = 15.0\n");
+        let e = load_config(Some(&unknown)).unwrap_err();
+        assert!(
+            e.contains("unknown.toml") && e.contains("line 2") && e.contains("mask"),
+            "{e}"
+        );
+
+        let bad = file("bad.toml", "[measurements]\ncn0_mask_dbhz = 99.0\n");
+        let e = load_config(Some(&bad)).unwrap_err();
+        assert!(
+            e.contains("bad.toml") && e.contains("measurements.cn0_mask_dbhz"),
+            "{e}"
+        );
+
+        let c = with_system_letters(Config::default(), "c");
+        assert!(c.uses(System::Beidou) && !c.uses(System::Gps));
     }
 }
