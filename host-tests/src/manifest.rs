@@ -31,6 +31,8 @@ pub struct Threshold {
     pub availability_min_pct: Option<f64>,
     /// Time to first fix after wake-up, 95th percentile, at most, s.
     pub ttff95_s: Option<f64>,
+    /// 3-D velocity error RMS against the truth velocity, at most, m/s.
+    pub vel_rms_mps: Option<f64>,
 }
 
 /// A synthetic row.
@@ -220,22 +222,22 @@ pub fn table(results: &[RowResult]) -> (String, bool) {
     let mut s = String::new();
     let _ = writeln!(
         s,
-        "| row | kind | epochs | availability % | H 50 % m | H 95 % m | V 50 % m | V 95 % m | TTFF 95 % s |"
+        "| row | kind | epochs | availability % | H 50 % m | H 95 % m | V 50 % m | V 95 % m | TTFF 95 % s | velocity RMS m/s |"
     );
-    let _ = writeln!(s, "|---|---|---|---|---|---|---|---|---|");
+    let _ = writeln!(s, "|---|---|---|---|---|---|---|---|---|---|");
     let mut all_ok = true;
     for r in results {
         match &r.outcome {
             RowOutcome::Skipped => {
                 let _ = writeln!(
                     s,
-                    "| {} | {} | skipped: no data folder | | | | | | |",
+                    "| {} | {} | skipped: no data folder | | | | | | | |",
                     r.name, r.kind
                 );
             }
             RowOutcome::Error(e) => {
                 all_ok = false;
-                let _ = writeln!(s, "| {} | {} | **ERROR** {e} | | | | | | |", r.name, r.kind);
+                let _ = writeln!(s, "| {} | {} | **ERROR** {e} | | | | | | | |", r.name, r.kind);
             }
             RowOutcome::Ran(m) => {
                 let t = &r.threshold;
@@ -249,6 +251,12 @@ pub fn table(results: &[RowResult]) -> (String, bool) {
                     cell(or_nan(v.count, v.p50), t.v50_m, false, 2),
                     cell(or_nan(v.count, v.p95), t.v95_m, false, 2),
                     cell(or_nan(m.ttff_s.count, m.ttff_s.p95), t.ttff95_s, false, 1),
+                    cell(
+                        or_nan(m.velocity_error.count, m.velocity_error.rms),
+                        t.vel_rms_mps,
+                        false,
+                        3,
+                    ),
                 ];
                 all_ok &= cells.iter().all(|c| c.1);
                 let _ = writeln!(

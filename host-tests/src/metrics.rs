@@ -81,6 +81,8 @@ pub struct Summary {
     pub wakeups_without_fix: usize,
     /// Post-fit residual RMS per satellite, m, with the number of residuals.
     pub residual_rms_by_sat: BTreeMap<SatId, (usize, f64)>,
+    /// 3-D velocity error against the truth velocity, m/s, where both are known.
+    pub velocity_error: Stats,
 }
 
 impl Summary {
@@ -95,6 +97,11 @@ impl Summary {
             .map(|e| (e[0] * e[0] + e[1] * e[1] + e[2] * e[2]).sqrt())
             .collect();
         let pdop: Vec<f64> = fixes.iter().map(|f| f.pdop).collect();
+        let vel: Vec<f64> = records
+            .iter()
+            .filter_map(EpochRecord::velocity_error_enu_mps)
+            .map(|e| (e[0] * e[0] + e[1] * e[1] + e[2] * e[2]).sqrt())
+            .collect();
 
         // Time to first fix: from each wake-up to the first fix before the next wake-up.
         let mut ttff = Vec::new();
@@ -143,6 +150,7 @@ impl Summary {
             ttff_s: Stats::of(&ttff),
             wakeups_without_fix: missed,
             residual_rms_by_sat,
+            velocity_error: Stats::of(&vel),
         }
     }
 }
