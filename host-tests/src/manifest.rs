@@ -237,7 +237,11 @@ pub fn table(results: &[RowResult]) -> (String, bool) {
             }
             RowOutcome::Error(e) => {
                 all_ok = false;
-                let _ = writeln!(s, "| {} | {} | **ERROR** {e} | | | | | | | |", r.name, r.kind);
+                let _ = writeln!(
+                    s,
+                    "| {} | {} | **ERROR** {e} | | | | | | | |",
+                    r.name, r.kind
+                );
             }
             RowOutcome::Ran(m) => {
                 let t = &r.threshold;
