@@ -19,7 +19,7 @@
 //! 7. every test of the workspace (release mode: the real-data replays are faster);
 //! 8. the benchmarks compile;
 //! 9. with pinned Python packages: the reference vectors (frames, models, exported times,
-//!    the Kalman filter core against filterpy)
+//!    the Kalman filter core against filterpy, χ² quantiles from scipy)
 //!    regenerated and compared with the committed files; the demo report's GPX validated
 //!    against the GPX 1.1 schema, its NMEA parsed by pynmea2 and its times compared with
 //!    astropy's (skipped, loudly, where Python is absent).
@@ -404,6 +404,7 @@ fn vectors(r: &mut Runner, write: bool) {
         ("gen_frames.py", "frames_pymap3d.csv"),
         ("gen_times.py", "times_astropy.csv"),
         ("gen_models.py", "models_reference.csv"),
+        ("gen_chi2.py", "chi2_scipy.csv"),
         ("gen_filter.py", "filter_filterpy.csv"),
     ] {
         println!("\nxtask: == regenerate {file}");
