@@ -66,6 +66,13 @@ pub(super) fn at(p: &Covariance, i: usize, j: usize) -> f64 {
 }
 
 /// Sets element (i, j); indices outside the matrix are ignored.
+/// Sets element `i` of a state vector; an index outside the layout is ignored.
+fn set(x: &mut StateVector, i: usize, v: f64) {
+    if let Some(e) = x.get_mut(i) {
+        *e = v;
+    }
+}
+
 pub(super) fn put(p: &mut Covariance, i: usize, j: usize, v: f64) {
     if let Some(e) = p.get_mut(i).and_then(|r| r.get_mut(j)) {
         *e = v;
@@ -255,12 +262,14 @@ impl FilterState {
 
     /// Receiver clock bias (m) and drift (m/s).
     pub fn clock(&self) -> (f64, f64) {
-        (self.x[CLOCK_BIAS], self.x[CLOCK_DRIFT])
+        let [_, _, _, _, _, _, bias, drift, _, _] = self.x;
+        (bias, drift)
     }
 
     /// Galileo − GPS and BeiDou − GPS inter-system biases, m.
     pub fn inter_system_biases(&self) -> [f64; 2] {
-        [self.x[ISB_GALILEO], self.x[ISB_BEIDOU]]
+        let [.., galileo, beidou] = self.x;
+        [galileo, beidou]
     }
 
     /// The covariance block of states `first..first + K`.
@@ -348,10 +357,10 @@ impl FilterState {
                 put(&mut self.p, j, k, 0.0);
             }
         }
-        self.p[CLOCK_BIAS][CLOCK_BIAS] = bias_var_m2;
-        self.p[CLOCK_DRIFT][CLOCK_DRIFT] = drift_var_m2ps2;
-        self.x[CLOCK_BIAS] = bias_m;
-        self.x[CLOCK_DRIFT] = drift_mps;
+        put(&mut self.p, CLOCK_BIAS, CLOCK_BIAS, bias_var_m2);
+        put(&mut self.p, CLOCK_DRIFT, CLOCK_DRIFT, drift_var_m2ps2);
+        set(&mut self.x, CLOCK_BIAS, bias_m);
+        set(&mut self.x, CLOCK_DRIFT, drift_mps);
         Ok(())
     }
 
@@ -362,14 +371,15 @@ impl FilterState {
     /// [`StateError::NonFinite`] or [`StateError::StateOutOfRange`]; the state is left
     /// unchanged.
     pub fn shift_clock_bias(&mut self, delta_m: f64) -> Result<(), StateError> {
-        let b = self.x[CLOCK_BIAS] + delta_m;
+        let (bias, _) = self.clock();
+        let b = bias + delta_m;
         if !b.is_finite() {
             return Err(StateError::NonFinite);
         }
         if b.abs() > MAX_ABS_STATE {
             return Err(StateError::StateOutOfRange);
         }
-        self.x[CLOCK_BIAS] = b;
+        set(&mut self.x, CLOCK_BIAS, b);
         Ok(())
     }
 }

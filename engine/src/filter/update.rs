@@ -24,8 +24,8 @@
 use core::fmt;
 
 use super::state::{
-    at, mirror_upper, put, FilterState, StateVector, CLOCK_BIAS, CLOCK_DRIFT, ISB_BEIDOU,
-    ISB_GALILEO, MAX_ABS_STATE, MAX_VARIANCE, STATE_LEN,
+    at, mirror_upper, put, FilterState, StateVector, ISB_BEIDOU, ISB_GALILEO, MAX_ABS_STATE,
+    MAX_VARIANCE, STATE_LEN,
 };
 use crate::System;
 
@@ -70,11 +70,8 @@ impl MeasurementRow {
     /// receiver to the satellite, ECEF.
     pub fn pseudorange(line_of_sight: [f64; 3], system: System) -> Self {
         let [ex, ey, ez] = line_of_sight;
-        let mut h = [0.0; STATE_LEN];
-        h[0] = -ex;
-        h[1] = -ey;
-        h[2] = -ez;
-        h[CLOCK_BIAS] = 1.0;
+        // Layout: position, velocity, clock bias, drift, the two inter-system biases.
+        let mut h = [-ex, -ey, -ez, 0.0, 0.0, 0.0, 1.0, 0.0, 0.0, 0.0];
         if let Some(k) = isb_state(system).and_then(|k| h.get_mut(k)) {
             *k = 1.0;
         }
@@ -86,11 +83,8 @@ impl MeasurementRow {
     /// biases are constant in the model and do not enter.
     pub fn range_rate(line_of_sight: [f64; 3]) -> Self {
         let [ex, ey, ez] = line_of_sight;
-        let mut h = [0.0; STATE_LEN];
-        h[3] = -ex;
-        h[4] = -ey;
-        h[5] = -ez;
-        h[CLOCK_DRIFT] = 1.0;
+        // Layout: position, velocity, clock bias, drift, the two inter-system biases.
+        let h = [0.0, 0.0, 0.0, -ex, -ey, -ez, 0.0, 1.0, 0.0, 0.0];
         MeasurementRow { h }
     }
 

@@ -1,4 +1,6 @@
-use super::super::state::{Covariance, POS_X, POS_Y, POS_Z, VEL_X, VEL_Y, VEL_Z};
+use super::super::state::{
+    Covariance, CLOCK_BIAS, CLOCK_DRIFT, POS_X, POS_Y, POS_Z, VEL_X, VEL_Y, VEL_Z,
+};
 use super::*;
 
 fn diagonal(x: StateVector, var: StateVector) -> FilterState {
@@ -291,4 +293,33 @@ fn errors_and_outcomes_print() {
         "innovation variance not finite or not positive"
     );
     assert_eq!(UpdateOutcome::Gated { nis: 12.5 }.nis(), 12.5);
+}
+
+// The literal rows follow the state layout's named indices.
+#[test]
+fn rows_follow_the_state_layout() {
+    let u = [0.6, 0.0, 0.8];
+    let h = *MeasurementRow::pseudorange(u, System::Galileo).coefficients();
+    assert_eq!(
+        (h[POS_X], h[POS_X + 2], h[CLOCK_BIAS], h[ISB_GALILEO]),
+        (-0.6, -0.8, 1.0, 1.0)
+    );
+    assert_eq!(h[CLOCK_DRIFT] + h[ISB_BEIDOU] + h[VEL_X], 0.0);
+    let h = *MeasurementRow::range_rate(u).coefficients();
+    assert_eq!(
+        (h[VEL_X], h[VEL_X + 2], h[CLOCK_DRIFT], h[CLOCK_BIAS]),
+        (-0.6, -0.8, 1.0, 0.0)
+    );
+    let mut s = FilterState::from_parts([1.0, 2.0, 3.0, 4.0, 5.0, 6.0, 7.0, 8.0, 9.0, 10.0], {
+        let mut p = [[0.0; STATE_LEN]; STATE_LEN];
+        for (i, r) in p.iter_mut().enumerate() {
+            r[i] = 1.0;
+        }
+        p
+    })
+    .unwrap();
+    assert_eq!(s.clock(), (7.0, 8.0));
+    assert_eq!(s.inter_system_biases(), [9.0, 10.0]);
+    s.shift_clock_bias(1.0).unwrap();
+    assert_eq!(s.x()[CLOCK_BIAS], 8.0);
 }

@@ -336,8 +336,9 @@ fn finish(
         .and_then(|r| r.get(first.saturating_add(3)))
         .copied()
         .unwrap_or(0.0);
-    let hdop2 = q[0][0] + q[1][1];
-    let pdop2 = hdop2 + q[2][2];
+    let [[qe, _, _], [_, qn, _], [_, _, qu]] = q;
+    let hdop2 = qe + qn;
+    let pdop2 = hdop2 + qu;
     let mut system_clock_m = [None; 3];
     for ((s, p), c) in system_clock_m.iter_mut().zip(f.present).zip(f.clk) {
         if p {
@@ -355,7 +356,7 @@ fn finish(
             gdop: sqrt(pdop2 + tdop2),
             pdop: sqrt(pdop2),
             hdop: sqrt(hdop2),
-            vdop: sqrt(q[2][2]),
+            vdop: sqrt(qu),
             tdop: sqrt(tdop2),
         },
         used: f.used,
