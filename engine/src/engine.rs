@@ -190,7 +190,8 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         let mut cand_index: Vec<usize, N> = Vec::new();
         for (i, obs) in epoch.obs.iter().enumerate() {
             let earlier = epoch.obs.iter().take(i);
-            let status = match self.screen(obs, earlier, epoch.time) {
+            let range_rate = range_rate_mps(obs, &self.config);
+            let status = match self.screen(obs, earlier, epoch.time, range_rate) {
                 Ok(c) => {
                     // Both capacities are N and there is at most one push per observation.
                     if cands.push(c).is_ok() {
@@ -208,7 +209,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
                 residual_m: None,
                 sigma_m: None,
                 status,
-                doppler: doppler_use(obs, &self.config),
+                doppler: doppler_use(obs, range_rate),
             });
         }
 
@@ -233,8 +234,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             if let Some(s) = sats.get_mut(i) {
                 if let Some((el, az)) = o.el_az {
                     s.elevation_deg = Some(el.to_degrees());
-                    s.azimuth_deg =
-                        Some(crate::frames::azimuth_from_atan2(az.into()).to_degrees() as f32);
+                    s.azimuth_deg = Some(crate::frames::azimuth_from_atan2(az.to_degrees(), 360.0));
                 }
                 if o.masked {
                     s.status = SatStatus::BelowMask;
@@ -271,12 +271,14 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
     }
 
     /// Checks one observation and, if usable, computes its satellite's state at transmit
-    /// time. Returns the exclusion reason otherwise.
+    /// time. Returns the exclusion reason otherwise. `range_rate` is the observation's
+    /// usable range rate from Doppler, if any.
     fn screen<'a>(
         &self,
         obs: &Observation,
         mut earlier: impl Iterator<Item = &'a Observation>,
         t_rx: GnssTime,
+        range_rate: Option<f64>,
     ) -> Result<Candidate, SatStatus> {
         let cfg = &self.config;
         let system = obs.sat.system;
@@ -329,7 +331,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             iono_scale: obs.signal.iono_scale_from_l1() as f32,
             vel: state.vel,
             clock_drift_mps: state.clock_drift * SPEED_OF_LIGHT,
-            range_rate_mps: range_rate_mps(obs, cfg),
+            range_rate_mps: range_rate,
         })
     }
 
@@ -369,12 +371,12 @@ fn range_rate_mps(obs: &Observation, cfg: &Config) -> Option<f64> {
     (rate.is_finite() && rate.abs() <= cfg.measurements.max_range_rate_mps).then_some(rate)
 }
 
-/// The first word on an observation's Doppler: missing, refused, or usable.
-fn doppler_use(obs: &Observation, cfg: &Config) -> DopplerUse {
-    match obs.doppler_hz {
-        None => DopplerUse::NotReported,
-        Some(0.0) => DopplerUse::NotReported,
-        Some(_) if range_rate_mps(obs, cfg).is_none() => DopplerUse::Rejected,
-        Some(_) => DopplerUse::NotUsed,
+/// The first word on an observation's Doppler, given its usable range rate `range_rate`
+/// (from [`range_rate_mps`]): missing, refused, or usable.
+fn doppler_use(obs: &Observation, range_rate: Option<f64>) -> DopplerUse {
+    match (obs.doppler_hz, range_rate) {
+        (None | Some(0.0), _) => DopplerUse::NotReported,
+        (Some(_), None) => DopplerUse::Rejected,
+        (Some(_), Some(_)) => DopplerUse::NotUsed,
     }
 }

@@ -135,16 +135,25 @@ impl LocalFrame {
     pub fn az_el(&self, target: [f64; 3]) -> (f64, f64) {
         let [e, n, u] = self.enu(target);
         (
-            azimuth_from_atan2(atan2(e, n)),
+            azimuth_from_atan2(atan2(e, n), 2.0 * core::f64::consts::PI),
             atan2(u, sqrt(e * e + n * n)),
         )
     }
 }
 
-/// An azimuth from `atan2(east, north)` (−π…π) moved into 0…2π, radians.
-pub fn azimuth_from_atan2(az: f64) -> f64 {
-    if az < 0.0 {
-        az + 2.0 * core::f64::consts::PI
+/// An azimuth from `atan2(east, north)` (−half turn … half turn) moved into 0 … `full_turn`,
+/// in the caller's precision and unit (f64 radians here, f32 degrees for the per-epoch
+/// report, so the microcontroller's path stays in single precision).
+#[expect(
+    clippy::arithmetic_side_effects,
+    reason = "T is a float in every use (f32, f64): adding a full turn cannot panic"
+)]
+pub fn azimuth_from_atan2<T>(az: T, full_turn: T) -> T
+where
+    T: Copy + PartialOrd + Default + core::ops::Add<Output = T>,
+{
+    if az < T::default() {
+        az + full_turn
     } else {
         az
     }
