@@ -1,8 +1,10 @@
 //! The engine: owns the ephemeris store, the configuration and what it remembers between
 //! epochs, all in fixed memory. Time is passed in with each epoch; nothing reads a clock.
 
-use crate::config::{Config, ConfigError};
+use crate::config::{Config, ConfigError, FilterMode};
 use crate::corrections::iono::IonoCoefficients;
+use crate::filter::track::{track, Tracked};
+use crate::filter::UpdateOutcome;
 use crate::frames::LocalFrame;
 use crate::measurements::observation::{Epoch, Observation};
 use crate::nav::ephemeris::{BroadcastEphemeris, EphemerisError};
@@ -11,7 +13,7 @@ use crate::sat::SPEED_OF_LIGHT;
 use crate::snapshot::velocity::{solve_velocity, RateRow};
 use crate::snapshot::wls::{solve, Candidate, Outcome, Setup};
 use crate::solution::{
-    DopplerUse, Fix, FixKind, FixOutcome, SatStatus, SatUse, Solution, Velocity,
+    DopplerUse, Fix, FixKind, FixOutcome, NoFixReason, SatStatus, SatUse, Solution, Velocity,
 };
 use crate::time::GnssTime;
 use heapless::Vec;
@@ -64,6 +66,7 @@ pub struct Engine<const N: usize, const EPH: usize> {
     iono: Option<IonoCoefficients>,
     last_time: Option<GnssTime>,
     anchor: Option<Anchor>,
+    tracked: Option<Tracked>,
 }
 
 impl<const N: usize, const EPH: usize> Engine<N, EPH> {
@@ -77,6 +80,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             iono: None,
             last_time: None,
             anchor: None,
+            tracked: None,
         }
     }
 
@@ -165,6 +169,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
     pub fn reset_time(&mut self) {
         self.last_time = None;
         self.anchor = None;
+        self.tracked = None;
     }
 
     /// Computes the solution of one epoch.
@@ -250,6 +255,18 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             fix.velocity = self.velocity(&fix, &cands, &outcomes, &cand_index, &mut sats);
             fix
         });
+        let filtered = self.filter_stage(
+            epoch.time,
+            &result,
+            &cands,
+            &outcomes,
+            &cand_index,
+            &mut sats,
+        );
+        let result = match filtered {
+            Some(fix) => Ok(fix),
+            None => result,
+        };
         let outcome = match result {
             Ok(fix) => {
                 if fix.kind == FixKind::ThreeD {
@@ -333,6 +350,42 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             clock_drift_mps: state.clock_drift * SPEED_OF_LIGHT,
             range_rate_mps: range_rate,
         })
+    }
+
+    /// The navigation filter after the snapshot (when configured): the fix it reports, if it
+    /// reports one; marks in `sats` each pseudorange its innovation test refused.
+    fn filter_stage(
+        &mut self,
+        t: GnssTime,
+        snapshot: &Result<Fix, NoFixReason>,
+        cands: &[Candidate],
+        outcomes: &[Outcome],
+        cand_index: &[usize],
+        sats: &mut [SatUse],
+    ) -> Option<Fix> {
+        if self.config.filter.mode != FilterMode::Tracking {
+            self.tracked = None;
+            return None;
+        }
+        let mut fates: Vec<Option<UpdateOutcome>, N> = Vec::new();
+        for _ in 0..cands.len() {
+            let _ = fates.push(None);
+        }
+        let fix = track(
+            &mut self.tracked,
+            &self.config,
+            t,
+            snapshot.as_ref().ok(),
+            cands,
+            outcomes,
+            &mut fates,
+        );
+        for (fate, &i) in fates.iter().zip(cand_index) {
+            if let (Some(UpdateOutcome::Gated { .. }), Some(s)) = (fate, sats.get_mut(i)) {
+                s.status = SatStatus::Gated;
+            }
+        }
+        fix
     }
 
     /// The velocity from the Doppler of the candidates the fix used; marks each used

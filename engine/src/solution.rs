@@ -36,6 +36,9 @@ pub enum SatStatus {
     SignalNotUsed,
     /// Usable, but the epoch produced no fix.
     NotSolved,
+    /// Used by the least-squares fix but refused by the navigation filter's innovation
+    /// test (its statistic is in the residual: the innovation, m).
+    Gated,
 }
 
 /// What became of an observation's Doppler.
@@ -168,8 +171,26 @@ pub struct Fix {
     pub iono: IonoCorrection,
     /// Weighted sum of squared residuals Σ(v/σ)² (a χ² statistic when the σ model holds).
     pub weighted_sse: f64,
-    /// Velocity and clock drift, when at least four used satellites reported Doppler.
+    /// Velocity and clock drift, when at least four used satellites reported Doppler (or
+    /// from the filter).
     pub velocity: Option<Velocity>,
+    /// Where the position comes from.
+    pub source: FixSource,
+}
+
+/// Where a fix's position comes from.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
+pub enum FixSource {
+    /// This epoch's least-squares solution alone.
+    Snapshot,
+    /// The navigation filter, updated with this epoch's measurements.
+    Filtered,
+    /// The navigation filter's prediction: no measurement could be used this epoch (an
+    /// outage); its σ grows with the time since the last update.
+    Predicted,
 }
 
 /// Why an epoch produced no fix.

@@ -2,8 +2,8 @@
 //! every metric, plot and export.
 
 use trackfix_engine::{
-    FixKind, FixOutcome, GnssTime, IonoCorrection, LocalFrame, NoFixReason, SatId, SatStatus,
-    Solution,
+    FixKind, FixOutcome, FixSource, GnssTime, IonoCorrection, LocalFrame, NoFixReason, SatId,
+    SatStatus, Solution,
 };
 
 /// A fix, reduced to what metrics and reports use.
@@ -35,6 +35,8 @@ pub struct FixSummary {
     pub velocity_enu_mps: Option<[f64; 3]>,
     /// 1-σ of that velocity, east/north/up, m/s.
     pub velocity_sigma_enu_mps: Option<[f64; 3]>,
+    /// Snapshot, filtered or predicted.
+    pub source: FixSource,
 }
 
 /// One satellite's view in an epoch.
@@ -122,6 +124,7 @@ impl EpochRecord {
                             let c = v.covariance_enu_m2s2;
                             [0, 1, 2].map(|k| c[k][k].max(0.0).sqrt())
                         }),
+                        source: f.source,
                     }),
                     None,
                 )

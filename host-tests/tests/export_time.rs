@@ -66,6 +66,7 @@ fn record(time: GnssTime, with_fix: bool) -> EpochRecord {
         iono: IonoCorrection::Klobuchar,
         velocity_enu_mps: None,
         velocity_sigma_enu_mps: None,
+        source: trackfix_engine::FixSource::Snapshot,
     };
     EpochRecord {
         time,

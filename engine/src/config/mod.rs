@@ -1,5 +1,6 @@
 //! Every tunable of the engine, as plain data with documented defaults, one part per stage
-//! ([`MeasurementConfig`], [`NavConfig`], [`CorrectionConfig`], [`SnapshotConfig`]).
+//! ([`MeasurementConfig`], [`NavConfig`], [`CorrectionConfig`], [`SnapshotConfig`],
+//! [`FilterConfig`]).
 //! [`Config::validate`] names the first field outside its documented range; the engine
 //! refuses such a configuration. With the `serde` feature every part reads from and writes
 //! to TOML (or any serde format) with its defaults for missing keys and an error for
@@ -9,8 +10,8 @@ mod stages;
 mod validate;
 
 pub use stages::{
-    CorrectionConfig, IonoModel, MeasurementConfig, NavConfig, SnapshotConfig, SystemSet,
-    SystemSignals, TropoModel,
+    CorrectionConfig, FilterConfig, FilterMode, IonoModel, MeasurementConfig, NavConfig,
+    SnapshotConfig, SystemSet, SystemSignals, TropoModel,
 };
 pub use validate::{ConfigError, Problem};
 
@@ -32,6 +33,8 @@ pub struct Config {
     pub corrections: CorrectionConfig,
     /// The snapshot (least-squares) solution.
     pub snapshot: SnapshotConfig,
+    /// The navigation filter.
+    pub filter: FilterConfig,
 }
 
 impl Config {
@@ -43,6 +46,7 @@ impl Config {
         nav: NavConfig::DEFAULT,
         corrections: CorrectionConfig::DEFAULT,
         snapshot: SnapshotConfig::DEFAULT,
+        filter: FilterConfig::DEFAULT,
     };
 
     /// Whether `system` is enabled.

@@ -1,6 +1,7 @@
 //! The per-stage parts of [`super::Config`], each with its defaults and documented ranges
 //! (the ranges are checked by [`super::Config::validate`]).
 
+use crate::filter::{ClockNoise, MotionProfile};
 use crate::sat::{Signal, System};
 
 /// A set of systems, by name.
@@ -276,5 +277,68 @@ impl SnapshotConfig {
 impl Default for SnapshotConfig {
     fn default() -> Self {
         SnapshotConfig::DEFAULT
+    }
+}
+
+/// Whether the engine runs the navigation filter after the snapshot solution.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
+#[non_exhaustive]
+pub enum FilterMode {
+    /// Every fix is the epoch's own least-squares solution.
+    #[default]
+    Snapshot,
+    /// A Kalman filter carries position, velocity and clock from epoch to epoch, updated
+    /// with each epoch's pseudoranges and Dopplers, and predicts through short outages.
+    Tracking,
+}
+
+/// The navigation filter.
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(default, deny_unknown_fields))]
+#[non_exhaustive]
+pub struct FilterConfig {
+    /// Snapshot or tracking. Default snapshot (the filter's checks and firmware budget are
+    /// still to come; see docs/filter.md).
+    pub mode: FilterMode,
+    /// Acceleration noise of the platform. Default the road-vehicle profile: an asset
+    /// tracker is parked most of the time but must follow the vehicle that moves it.
+    pub motion: MotionProfile,
+    /// Receiver oscillator. Default a TCXO.
+    pub clock: ClockNoise,
+    /// Random-walk PSD of each inter-system bias, m²/s. Default 1e-5. Range 1e-12–100.
+    pub isb_psd: f64,
+    /// A measurement whose normalised innovation squared exceeds this is rejected (χ² with
+    /// one degree of freedom). Default 10.83, the 0.999 quantile [C: scipy.stats.chi2.isf
+    /// (0.001, 1) = 10.828]. Range 1–1,000.
+    pub gate: f64,
+    /// Longest prediction without measurements before the filter gives up and waits for a
+    /// fresh fix, s. Default 30 s (a tunnel or an underpass). Range 0–3,600 s.
+    pub max_coast_s: f64,
+    /// Longest gap between epochs the filter predicts across; after a longer one it starts
+    /// again from the next least-squares fix, s. Default 600 s. Range 1–86,400 s.
+    pub max_gap_s: f64,
+}
+
+impl FilterConfig {
+    /// The defaults.
+    pub const DEFAULT: FilterConfig = FilterConfig {
+        mode: FilterMode::Snapshot,
+        motion: MotionProfile::ROAD_VEHICLE,
+        clock: ClockNoise::TCXO,
+        isb_psd: 1e-5,
+        gate: 10.83,
+        max_coast_s: 30.0,
+        max_gap_s: 600.0,
+    };
+}
+
+impl Default for FilterConfig {
+    fn default() -> Self {
+        FilterConfig::DEFAULT
     }
 }

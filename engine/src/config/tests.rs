@@ -45,3 +45,19 @@ fn with_systems_enables_exactly_those() {
     let c = Config::default().with_systems(&[System::Gps, System::Beidou]);
     assert!(c.uses(System::Gps) && c.uses(System::Beidou) && !c.uses(System::Galileo));
 }
+
+#[test]
+fn filter_fields_are_named() {
+    let mut c = Config::default();
+    c.filter.motion.accel_psd_horizontal = 0.0;
+    assert_eq!(
+        c.validate().unwrap_err().field,
+        "filter.motion.accel_psd_horizontal"
+    );
+    let mut c = Config::default();
+    c.filter.clock.h0 = -1.0;
+    assert_eq!(c.validate().unwrap_err().field, "filter.clock.h0");
+    let mut c = Config::default();
+    c.filter.gate = f64::INFINITY;
+    assert_eq!(c.validate().unwrap_err().problem, Problem::NotFinite);
+}

@@ -182,6 +182,42 @@ impl Config {
             s.doppler_sigma_mps,
             0.001,
             10.0,
-        )
+        )?;
+        self.validate_filter()
+    }
+
+    fn validate_filter(&self) -> Result<(), ConfigError> {
+        use crate::filter::noise::{ACCEL_PSD_RANGE, H0_RANGE, H_MINUS2_RANGE, ISB_PSD_RANGE};
+        let f = &self.filter;
+        let m = &f.motion;
+        let psd = ACCEL_PSD_RANGE;
+        range(
+            "filter.motion.accel_psd_horizontal",
+            m.accel_psd_horizontal,
+            psd.0,
+            psd.1,
+        )?;
+        range(
+            "filter.motion.accel_psd_vertical",
+            m.accel_psd_vertical,
+            psd.0,
+            psd.1,
+        )?;
+        range("filter.clock.h0", f.clock.h0, H0_RANGE.0, H0_RANGE.1)?;
+        range(
+            "filter.clock.h_minus2",
+            f.clock.h_minus2,
+            H_MINUS2_RANGE.0,
+            H_MINUS2_RANGE.1,
+        )?;
+        range(
+            "filter.isb_psd",
+            f.isb_psd,
+            ISB_PSD_RANGE.0,
+            ISB_PSD_RANGE.1,
+        )?;
+        range("filter.gate", f.gate, 1.0, 1_000.0)?;
+        range("filter.max_coast_s", f.max_coast_s, 0.0, 3_600.0)?;
+        range("filter.max_gap_s", f.max_gap_s, 1.0, 86_400.0)
     }
 }

@@ -52,6 +52,7 @@
 pub mod noise;
 pub mod process;
 pub mod state;
+pub(crate) mod track;
 pub mod update;
 
 pub use noise::{ClockNoise, MotionProfile, ParameterError, ProcessNoise};

@@ -22,7 +22,7 @@ use crate::corrections::tropo::ZenithDelay;
 use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
 use crate::linalg::{add, Cholesky6, Mat, Mat6};
 use crate::sat::{System, SPEED_OF_LIGHT};
-use crate::solution::{Dop, Fix, FixKind, IonoCorrection, NoFixReason};
+use crate::solution::{Dop, Fix, FixKind, FixSource, IonoCorrection, NoFixReason};
 use libm::{sin, sqrt};
 
 /// Lowest sin(elevation) used in the σ model, so a satellite at the horizon (reachable with a
@@ -57,7 +57,7 @@ pub(crate) struct Candidate {
 
 impl Candidate {
     /// Earth rotation rate of the satellite's system, rad/s (for the Sagnac rotation).
-    fn omega_e(&self) -> f64 {
+    pub fn omega_e(&self) -> f64 {
         System::ALL
             .get(self.sys)
             .map_or(crate::sat::GPS_CONSTANTS.omega_e, |s| s.constants().omega_e)
@@ -368,6 +368,7 @@ fn finish(
         },
         weighted_sse: sse,
         velocity: None,
+        source: FixSource::Snapshot,
     })
 }
 
@@ -394,7 +395,7 @@ pub(crate) fn enu_block<const D: usize>(frame: &LocalFrame, qd: &Mat<D>) -> [[f6
 /// signal's flight, so it is expressed in the ECEF frame of reception (the Sagnac
 /// correction). The angle is ≤ 7e-6 rad, so sin θ = θ and cos θ = 1 − θ²/2 are exact to
 /// far below a millimetre and save two trigonometric calls per satellite.
-fn sagnac(sat: [f64; 3], rx: [f64; 3], omega_e: f64) -> [f64; 3] {
+pub(crate) fn sagnac(sat: [f64; 3], rx: [f64; 3], omega_e: f64) -> [f64; 3] {
     let theta = omega_e * norm(sub(sat, rx)) / SPEED_OF_LIGHT;
     let c = 1.0 - 0.5 * theta * theta;
     [
