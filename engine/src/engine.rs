@@ -3,8 +3,7 @@
 
 use crate::config::{Config, ConfigError, FilterMode};
 use crate::corrections::iono::IonoCoefficients;
-use crate::filter::track::{track, Tracked};
-use crate::filter::UpdateOutcome;
+use crate::filter::track::{self, Context, Step, Tracked};
 use crate::frames::LocalFrame;
 use crate::measurements::observation::{Epoch, Observation};
 use crate::nav::ephemeris::{BroadcastEphemeris, EphemerisError};
@@ -13,7 +12,8 @@ use crate::sat::SPEED_OF_LIGHT;
 use crate::snapshot::velocity::{solve_velocity, RateRow};
 use crate::snapshot::wls::{solve, Candidate, Outcome, Setup};
 use crate::solution::{
-    DopplerUse, Fix, FixKind, FixOutcome, NoFixReason, SatStatus, SatUse, Solution, Velocity,
+    DopplerUse, FilterEvent, Fix, FixKind, FixOutcome, FixSource, NoFixReason, SatStatus, SatUse,
+    Solution, Velocity,
 };
 use crate::time::GnssTime;
 use heapless::Vec;
@@ -218,55 +218,12 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             });
         }
 
-        let hold_height_m = self.anchor.and_then(|a| {
-            (epoch.time.since(a.time).as_secs_f64() <= self.config.snapshot.altitude_hold_max_age_s)
-                .then_some(a.height_m)
-        });
-        let setup = Setup {
-            config: &self.config,
-            iono: self.iono.as_ref(),
-            tow_s: epoch.time.tow_s(),
-            seed: self.anchor.map_or([0.0; 3], |a| a.ecef_m),
-            hold_height_m,
-        };
         let mut outcomes: Vec<Outcome, N> = Vec::new();
         for _ in 0..cands.len() {
             let _ = outcomes.push(Outcome::default());
         }
-        let result = solve(&cands, &setup, &mut outcomes);
-
-        for (o, &i) in outcomes.iter().zip(cand_index.iter()) {
-            if let Some(s) = sats.get_mut(i) {
-                if let Some((el, az)) = o.el_az {
-                    s.elevation_deg = Some(el.to_degrees());
-                    s.azimuth_deg = Some(crate::frames::azimuth_from_atan2(az.to_degrees(), 360.0));
-                }
-                if o.masked {
-                    s.status = SatStatus::BelowMask;
-                } else if o.used && result.is_ok() {
-                    s.status = SatStatus::Used;
-                    s.residual_m = Some(o.residual_m);
-                    s.sigma_m = Some(o.sigma_m as f32);
-                }
-            }
-        }
-
-        let result = result.map(|mut fix| {
-            fix.velocity = self.velocity(&fix, &cands, &outcomes, &cand_index, &mut sats);
-            fix
-        });
-        let filtered = self.filter_stage(
-            epoch.time,
-            &result,
-            &cands,
-            &outcomes,
-            &cand_index,
-            &mut sats,
-        );
-        let result = match filtered {
-            Some(fix) => Ok(fix),
-            None => result,
-        };
+        let (result, filter_event) = self.solve_epoch(epoch.time, &cands, &mut outcomes);
+        self.mark(&result, &cands, &outcomes, &cand_index, &mut sats);
         let outcome = match result {
             Ok(fix) => {
                 if fix.kind == FixKind::ThreeD {
@@ -283,6 +240,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         Ok(Solution {
             time: epoch.time,
             outcome,
+            filter_event,
             sats,
         })
     }
@@ -352,67 +310,118 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         })
     }
 
-    /// The navigation filter after the snapshot (when configured): the fix it reports, if it
-    /// reports one; marks in `sats` each pseudorange its innovation test refused.
-    fn filter_stage(
+    /// The epoch's fix: the navigation filter's while it tracks; otherwise the least-squares
+    /// solution, which (in tracking mode) starts the filter. Also says what the filter did.
+    fn solve_epoch(
         &mut self,
         t: GnssTime,
-        snapshot: &Result<Fix, NoFixReason>,
         cands: &[Candidate],
-        outcomes: &[Outcome],
-        cand_index: &[usize],
-        sats: &mut [SatUse],
-    ) -> Option<Fix> {
+        outcomes: &mut [Outcome],
+    ) -> (Result<Fix, NoFixReason>, FilterEvent) {
         if self.config.filter.mode != FilterMode::Tracking {
             self.tracked = None;
-            return None;
+            return (self.snapshot(t, cands, outcomes), FilterEvent::None);
         }
-        let mut fates: Vec<Option<UpdateOutcome>, N> = Vec::new();
-        for _ in 0..cands.len() {
-            let _ = fates.push(None);
+        let ctx = Context {
+            cfg: &self.config,
+            iono: self.iono.as_ref(),
+            tow_s: t.tow_s(),
+            time: t,
+        };
+        let event = match track::step(&mut self.tracked, &ctx, cands, outcomes) {
+            Step::Fix(fix, event) => return (Ok(fix), event),
+            Step::Lost(event) => event,
+        };
+        for o in outcomes.iter_mut() {
+            *o = Outcome::default();
         }
-        let fix = track(
-            &mut self.tracked,
-            &self.config,
-            t,
-            snapshot.as_ref().ok(),
-            cands,
-            outcomes,
-            &mut fates,
-        );
-        for (fate, &i) in fates.iter().zip(cand_index) {
-            if let (Some(UpdateOutcome::Gated { .. }), Some(s)) = (fate, sats.get_mut(i)) {
-                s.status = SatStatus::Gated;
-            }
-        }
-        fix
+        let result = self.snapshot(t, cands, outcomes);
+        self.tracked = result.as_ref().ok().and_then(|fix| track::start(fix, t));
+        let event = match (event, &self.tracked) {
+            (FilterEvent::Started, None) => FilterEvent::None,
+            (FilterEvent::CoastEnded, _) | (_, None) => event,
+            (FilterEvent::None, Some(_)) => FilterEvent::Started,
+            (e, Some(_)) => e,
+        };
+        (result, event)
     }
 
-    /// The velocity from the Doppler of the candidates the fix used; marks each used
-    /// Doppler with its residual in `sats`.
-    fn velocity(
+    /// The least-squares solution of the epoch with its Doppler velocity.
+    #[inline(never)]
+    fn snapshot(
         &self,
-        fix: &Fix,
+        t: GnssTime,
+        cands: &[Candidate],
+        outcomes: &mut [Outcome],
+    ) -> Result<Fix, NoFixReason> {
+        let hold_height_m = self.anchor.and_then(|a| {
+            (t.since(a.time).as_secs_f64() <= self.config.snapshot.altitude_hold_max_age_s)
+                .then_some(a.height_m)
+        });
+        let setup = Setup {
+            config: &self.config,
+            iono: self.iono.as_ref(),
+            tow_s: t.tow_s(),
+            seed: self.anchor.map_or([0.0; 3], |a| a.ecef_m),
+            hold_height_m,
+        };
+        let mut fix = solve(cands, &setup, outcomes)?;
+        fix.velocity = self.velocity(&fix, cands, outcomes);
+        Ok(fix)
+    }
+
+    /// Writes into `sats` what the solution made of each candidate.
+    fn mark(
+        &self,
+        result: &Result<Fix, NoFixReason>,
         cands: &[Candidate],
         outcomes: &[Outcome],
         cand_index: &[usize],
         sats: &mut [SatUse],
-    ) -> Option<Velocity> {
+    ) {
+        let snapshot = result
+            .as_ref()
+            .is_ok_and(|f| f.source == FixSource::Snapshot);
+        let sigma = self.config.snapshot.doppler_sigma_mps;
+        for ((c, o), &i) in cands.iter().zip(outcomes).zip(cand_index) {
+            let Some(s) = sats.get_mut(i) else {
+                continue;
+            };
+            if let Some((el, az)) = o.el_az {
+                s.elevation_deg = Some(el.to_degrees());
+                s.azimuth_deg = Some(crate::frames::azimuth_from_atan2(az.to_degrees(), 360.0));
+            }
+            if o.masked {
+                s.status = SatStatus::BelowMask;
+            } else if let Some(nis) = o.gated_nis {
+                s.status = SatStatus::Gated { nis };
+            } else if o.used && result.is_ok() {
+                s.status = SatStatus::Used;
+                s.residual_m = Some(o.residual_m);
+                s.sigma_m = Some(o.sigma_m as f32);
+            }
+            let rate_residual = match (snapshot, result) {
+                (true, Ok(fix)) => fix.velocity.and_then(|v| {
+                    RateRow::of(c, o, sigma)
+                        .map(|row| row.residual(v.ecef_mps, v.clock_drift_mps) as f32)
+                }),
+                _ => o.rate_innovation_mps,
+            };
+            if let Some(residual_mps) = rate_residual {
+                s.doppler = DopplerUse::Used { residual_mps };
+            }
+        }
+    }
+
+    /// The velocity from the Doppler of the candidates the fix used.
+    fn velocity(&self, fix: &Fix, cands: &[Candidate], outcomes: &[Outcome]) -> Option<Velocity> {
         let sigma = self.config.snapshot.doppler_sigma_mps;
         let rows = cands
             .iter()
             .zip(outcomes)
             .filter_map(|(c, o)| RateRow::of(c, o, sigma));
         let frame = LocalFrame::new(fix.ecef_m, &fix.geodetic);
-        let v = solve_velocity(rows, &frame)?;
-        for ((c, o), &i) in cands.iter().zip(outcomes).zip(cand_index) {
-            if let (Some(row), Some(s)) = (RateRow::of(c, o, sigma), sats.get_mut(i)) {
-                s.doppler = DopplerUse::Used {
-                    residual_mps: row.residual(v.ecef_mps, v.clock_drift_mps) as f32,
-                };
-            }
-        }
-        Some(v)
+        solve_velocity(rows, &frame)
     }
 }
 

@@ -7,12 +7,13 @@ use crate::time::GnssTime;
 use heapless::Vec;
 
 /// What became of one observation.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+#[derive(Clone, Copy, Debug, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 #[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
 #[non_exhaustive]
 pub enum SatStatus {
-    /// Used in the fix.
+    /// Used in the fix (by the navigation filter: applied as an update; its residual is then
+    /// the innovation before the update).
     Used,
     /// Below the elevation mask.
     BelowMask,
@@ -36,9 +37,12 @@ pub enum SatStatus {
     SignalNotUsed,
     /// Usable, but the epoch produced no fix.
     NotSolved,
-    /// Used by the least-squares fix but refused by the navigation filter's innovation
-    /// test (its statistic is in the residual: the innovation, m).
-    Gated,
+    /// Refused by the navigation filter's innovation test (χ² with one degree of freedom
+    /// against `filter.gate`).
+    Gated {
+        /// The normalised innovation squared ν²/S that failed the test.
+        nis: f32,
+    },
 }
 
 /// What became of an observation's Doppler.
@@ -191,6 +195,62 @@ pub enum FixSource {
     /// The navigation filter's prediction: no measurement could be used this epoch (an
     /// outage); its σ grows with the time since the last update.
     Predicted,
+    /// The navigation filter, updated with this epoch's measurements, with the asset found
+    /// stationary: its velocity is pinned to zero and its position held.
+    Held,
+}
+
+impl FixSource {
+    /// The kind of fix in plain words, as reports print it.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            FixSource::Snapshot => "snapshot",
+            FixSource::Filtered => "filtered",
+            FixSource::Predicted => "predicted",
+            FixSource::Held => "held",
+        }
+    }
+}
+
+/// What the navigation filter did at an epoch besides its usual predict and update.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
+pub enum FilterEvent {
+    /// Nothing besides (or the filter is off).
+    #[default]
+    None,
+    /// Started from this epoch's least-squares fix.
+    Started,
+    /// The receiver clock jumped (a whole-millisecond step, or a wake-up's new clock): the
+    /// clock states were re-seated, the position kept.
+    ClockReseated,
+    /// A held position was released: the asset moves (or a gap made the hold unsafe).
+    HoldReleased,
+    /// The gap since the last epoch exceeded `filter.max_gap_s`: restarted from this
+    /// epoch's least-squares fix.
+    RestartedAfterGap,
+    /// The innovations over the last epochs failed the consistency test (the filter
+    /// diverged): restarted from this epoch's least-squares fix.
+    RestartedDiverged,
+    /// No measurement updated the filter for `filter.max_coast_s`: prediction given up.
+    CoastEnded,
+}
+
+impl FilterEvent {
+    /// The event in plain words, as reports print it.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            FilterEvent::None => "",
+            FilterEvent::Started => "started",
+            FilterEvent::ClockReseated => "clock re-seated",
+            FilterEvent::HoldReleased => "hold released",
+            FilterEvent::RestartedAfterGap => "restarted after gap",
+            FilterEvent::RestartedDiverged => "restarted (diverged)",
+            FilterEvent::CoastEnded => "prediction given up",
+        }
+    }
 }
 
 /// Why an epoch produced no fix.
@@ -238,6 +298,8 @@ pub struct Solution<const N: usize> {
     pub time: GnssTime,
     /// The fix or why there is none.
     pub outcome: FixOutcome,
+    /// What the navigation filter did besides its usual step.
+    pub filter_event: FilterEvent,
     /// One entry per observation of the epoch, in input order.
     pub sats: Vec<SatUse, N>,
 }

@@ -2,8 +2,8 @@
 //! every metric, plot and export.
 
 use trackfix_engine::{
-    FixKind, FixOutcome, FixSource, GnssTime, IonoCorrection, LocalFrame, NoFixReason, SatId,
-    SatStatus, Solution,
+    FilterEvent, FixKind, FixOutcome, FixSource, GnssTime, IonoCorrection, LocalFrame, NoFixReason,
+    SatId, SatStatus, Solution,
 };
 
 /// A fix, reduced to what metrics and reports use.
@@ -67,6 +67,8 @@ pub struct EpochRecord {
     pub wake_start: bool,
     /// True antenna velocity, ECEF m/s, when known (zero for a reference station).
     pub truth_velocity_ecef_mps: Option<[f64; 3]>,
+    /// What the navigation filter did besides its usual step.
+    pub filter_event: FilterEvent,
     /// Per satellite.
     pub sats: Vec<SatSummary>,
 }
@@ -138,6 +140,7 @@ impl EpochRecord {
             no_fix,
             wake_start,
             truth_velocity_ecef_mps: None,
+            filter_event: sol.filter_event,
             sats,
         }
     }

@@ -75,6 +75,7 @@ fn record(time: GnssTime, with_fix: bool) -> EpochRecord {
         no_fix: None,
         wake_start: false,
         truth_velocity_ecef_mps: None,
+        filter_event: trackfix_engine::FilterEvent::None,
         sats: vec![],
     }
 }

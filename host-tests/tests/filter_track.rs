@@ -20,11 +20,16 @@ fn tracking(mut c: Config) -> Config {
     c
 }
 
+fn snapshot(mut c: Config) -> Config {
+    c.filter.mode = FilterMode::Snapshot;
+    c
+}
+
 fn both(name: &str) -> (Vec<EpochRecord>, Vec<EpochRecord>) {
     let r = row(name);
     let cfg = config_for(r.engine_systems.as_deref().unwrap_or(&r.spec.systems));
     (
-        run(&r.spec, cfg).unwrap(),
+        run(&r.spec, snapshot(cfg)).unwrap(),
         run(&r.spec, tracking(cfg)).unwrap(),
     )
 }
@@ -107,10 +112,16 @@ fn a_millisecond_clock_step_moves_no_position() {
     );
     let rec = run(&spec, tracking(Config::default())).unwrap();
     assert_eq!(rec.len(), g.len());
-    assert!(rec
-        .iter()
-        .skip(1)
-        .all(|e| e.fix.map(|f| f.source) == Some(FixSource::Filtered)));
+    assert!(rec.iter().skip(1).all(|e| matches!(
+        e.fix.map(|f| f.source),
+        Some(FixSource::Filtered | FixSource::Held)
+    )));
+    for &k in &jumped {
+        assert_eq!(
+            rec[k].filter_event,
+            trackfix_engine::FilterEvent::ClockReseated
+        );
+    }
     let step = |k: usize| {
         let (a, b) = (rec[k - 1].fix.unwrap().ecef_m, rec[k].fix.unwrap().ecef_m);
         (0..3).map(|i| (a[i] - b[i]).powi(2)).sum::<f64>().sqrt()
@@ -139,13 +150,32 @@ fn a_millisecond_clock_step_moves_no_position() {
 fn filtered_against_snapshot_per_row() {
     for name in [
         "static-depot",
+        "static-gps-only",
         "pedestrian-park",
         "truck-city-tunnel",
         "ship-open-sea",
+        "train-freight",
         "sleeper-downloaded",
+        "sleeper-decoded",
+        "fault-clock-step",
+        "fault-clock-ramp",
     ] {
         let (s, f) = both(name);
         let (a, b) = (Summary::of(&s), Summary::of(&f));
+        let kinds = |r: &[EpochRecord]| {
+            let mut k = std::collections::BTreeMap::new();
+            for e in r {
+                *k.entry(e.fix.map_or("none", |f| f.source.as_str()))
+                    .or_insert(0) += 1;
+            }
+            k
+        };
+        println!("{name}: {:?}", kinds(&f));
+        let mut ev = std::collections::BTreeMap::new();
+        for e in &f {
+            *ev.entry(e.filter_event.as_str()).or_insert(0) += 1;
+        }
+        println!("{name}: {ev:?}");
         println!(
             "{name}: snapshot H50/95 {:.2}/{:.2} V95 {:.2} availability {:.1} %; filtered H50/95 {:.2}/{:.2} V95 {:.2} availability {:.1} %",
             a.horizontal.p50,

@@ -10,7 +10,7 @@ mod stages;
 mod validate;
 
 pub use stages::{
-    CorrectionConfig, FilterConfig, FilterMode, IonoModel, MeasurementConfig, NavConfig,
+    CorrectionConfig, FilterConfig, FilterMode, HoldMode, IonoModel, MeasurementConfig, NavConfig,
     SnapshotConfig, SystemSet, SystemSignals, TropoModel,
 };
 pub use validate::{ConfigError, Problem};

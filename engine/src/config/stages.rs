@@ -288,11 +288,27 @@ impl Default for SnapshotConfig {
 #[non_exhaustive]
 pub enum FilterMode {
     /// Every fix is the epoch's own least-squares solution.
-    #[default]
     Snapshot,
     /// A Kalman filter carries position, velocity and clock from epoch to epoch, updated
-    /// with each epoch's pseudoranges and Dopplers, and predicts through short outages.
+    /// with each epoch's pseudoranges and Dopplers, and predicts through short outages; a
+    /// least-squares fix starts it and restarts it. The default.
+    #[default]
     Tracking,
+}
+
+/// Whether the filter holds the position of a stationary asset.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(rename_all = "snake_case"))]
+#[non_exhaustive]
+pub enum HoldMode {
+    /// Never: the motion profile alone governs a still asset.
+    Off,
+    /// Hold once the speed has stayed below the threshold long enough; release as soon as
+    /// the Doppler or pseudorange innovations show motion. The default.
+    #[default]
+    Auto,
 }
 
 /// The navigation filter.
@@ -302,9 +318,17 @@ pub enum FilterMode {
 #[cfg_attr(feature = "serde", serde(default, deny_unknown_fields))]
 #[non_exhaustive]
 pub struct FilterConfig {
-    /// Snapshot or tracking. Default snapshot (the filter's checks and firmware budget are
-    /// still to come; see docs/filter.md).
+    /// Snapshot or tracking. Default tracking.
     pub mode: FilterMode,
+    /// Whether a stationary asset's position is held. Default automatic.
+    pub hold: HoldMode,
+    /// Speed below which the asset counts as still, m/s. Default 0.15 m/s (about three
+    /// times the σ of a Doppler velocity from eight satellites at 0.1 m/s each, so an asset
+    /// at rest is seen as still). Range 0.01–5 m/s.
+    pub hold_speed_mps: f64,
+    /// Time the asset must stay below `hold_speed_mps` before its position is held, s.
+    /// Default 5 s. Range 1–600 s.
+    pub hold_after_s: f64,
     /// Acceleration noise of the platform. Default the road-vehicle profile: an asset
     /// tracker is parked most of the time but must follow the vehicle that moves it.
     pub motion: MotionProfile,
@@ -316,6 +340,11 @@ pub struct FilterConfig {
     /// one degree of freedom). Default 10.83, the 0.999 quantile [C: scipy.stats.chi2.isf
     /// (0.001, 1) = 10.828]. Range 1–1,000.
     pub gate: f64,
+    /// σ of the signal-in-space range error (broadcast orbit and clock), m, added to each
+    /// pseudorange's variance in the filter. Default 1 m: what host-tests/tests/
+    /// precise_orbits.rs measures against IGS precise products (GPS 1.05 m, Galileo 0.91 m).
+    /// Range 0–30 m.
+    pub ure_sigma_m: f64,
     /// Longest prediction without measurements before the filter gives up and waits for a
     /// fresh fix, s. Default 30 s (a tunnel or an underpass). Range 0–3,600 s.
     pub max_coast_s: f64,
@@ -327,11 +356,15 @@ pub struct FilterConfig {
 impl FilterConfig {
     /// The defaults.
     pub const DEFAULT: FilterConfig = FilterConfig {
-        mode: FilterMode::Snapshot,
+        mode: FilterMode::Tracking,
+        hold: HoldMode::Auto,
+        hold_speed_mps: 0.15,
+        hold_after_s: 5.0,
         motion: MotionProfile::ROAD_VEHICLE,
         clock: ClockNoise::TCXO,
         isb_psd: 1e-5,
         gate: 10.83,
+        ure_sigma_m: 1.0,
         max_coast_s: 30.0,
         max_gap_s: 600.0,
     };

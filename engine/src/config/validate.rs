@@ -217,7 +217,10 @@ impl Config {
             ISB_PSD_RANGE.1,
         )?;
         range("filter.gate", f.gate, 1.0, 1_000.0)?;
+        range("filter.ure_sigma_m", f.ure_sigma_m, 0.0, 30.0)?;
         range("filter.max_coast_s", f.max_coast_s, 0.0, 3_600.0)?;
-        range("filter.max_gap_s", f.max_gap_s, 1.0, 86_400.0)
+        range("filter.max_gap_s", f.max_gap_s, 1.0, 86_400.0)?;
+        range("filter.hold_speed_mps", f.hold_speed_mps, 0.01, 5.0)?;
+        range("filter.hold_after_s", f.hold_after_s, 1.0, 600.0)
     }
 }

@@ -1,5 +1,7 @@
 //! Corrections to a pseudorange besides the satellite clock: the broadcast (Klobuchar)
-//! ionosphere and the troposphere.
+//! ionosphere and the troposphere, and [`site`], which applies them to every satellite seen
+//! from one receiver position.
 
 pub mod iono;
+pub(crate) mod site;
 pub mod tropo;

@@ -49,11 +49,14 @@
 //! would leave a state non-finite, out of range or with a non-positive variance is refused
 //! with the state unchanged.
 
+pub mod hold;
 pub mod noise;
 pub mod process;
+pub(crate) mod report;
 pub mod state;
 pub(crate) mod track;
 pub mod update;
+pub mod window;
 
 pub use noise::{ClockNoise, MotionProfile, ParameterError, ProcessNoise};
 pub use process::PredictError;

@@ -351,17 +351,38 @@ impl FilterState {
         {
             return Err(StateError::VarianceOutOfRange);
         }
-        for k in [CLOCK_BIAS, CLOCK_DRIFT] {
-            for j in 0..STATE_LEN {
-                put(&mut self.p, k, j, 0.0);
-                put(&mut self.p, j, k, 0.0);
-            }
-        }
-        put(&mut self.p, CLOCK_BIAS, CLOCK_BIAS, bias_var_m2);
-        put(&mut self.p, CLOCK_DRIFT, CLOCK_DRIFT, drift_var_m2ps2);
-        set(&mut self.x, CLOCK_BIAS, bias_m);
-        set(&mut self.x, CLOCK_DRIFT, drift_mps);
+        self.decorrelate(CLOCK_BIAS, bias_m, bias_var_m2);
+        self.decorrelate(CLOCK_DRIFT, drift_mps, drift_var_m2ps2);
         Ok(())
+    }
+
+    /// Frees the velocity: each axis keeps its value, takes the variance `var_m2ps2` and
+    /// loses every correlation (an asset that was held still and now moves).
+    ///
+    /// # Errors
+    /// [`StateError::VarianceOutOfRange`] for a variance that is not finite or outside
+    /// `(0,` [`MAX_VARIANCE`]`]`; the state is left unchanged.
+    pub fn free_velocity(&mut self, var_m2ps2: f64) -> Result<(), StateError> {
+        if !(var_m2ps2 > 0.0 && var_m2ps2 <= MAX_VARIANCE) {
+            return Err(StateError::VarianceOutOfRange);
+        }
+        for k in [VEL_X, VEL_Y, VEL_Z] {
+            let v = self.x.get(k).copied().unwrap_or(0.0);
+            self.decorrelate(k, v, var_m2ps2);
+        }
+        Ok(())
+    }
+
+    /// Sets state `k` to `value` with variance `var` and no correlation with the others. The
+    /// result stays positive definite: a principal block of a positive-definite matrix
+    /// beside a positive diagonal element.
+    fn decorrelate(&mut self, k: usize, value: f64, var: f64) {
+        for j in 0..STATE_LEN {
+            put(&mut self.p, k, j, 0.0);
+            put(&mut self.p, j, k, 0.0);
+        }
+        put(&mut self.p, k, k, var);
+        set(&mut self.x, k, value);
     }
 
     /// Moves the clock bias by `delta_m` without touching its uncertainty: a receiver's

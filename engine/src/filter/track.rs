@@ -1,27 +1,46 @@
-//! The filter as a pipeline stage: after the snapshot solution, carry the state across the
-//! gap since the last epoch, then update it with the pseudoranges and Dopplers the snapshot
-//! used, or predict through an outage.
+//! The filter as a pipeline stage. While it tracks, it replaces the least-squares solution:
+//! the epoch's corrections are computed at the predicted position and each pseudorange and
+//! Doppler updates the state directly, so a tracked epoch costs no least-squares iteration.
+//! A least-squares fix starts it, and starts it again after a gap, a divergence or a long
+//! outage.
 //!
-//! - Start (or restart after a gap longer than `max_gap_s`, or a refused step) from the
-//!   epoch's least-squares fix: its position and clock, its Doppler velocity when there is
-//!   one; that epoch's fix stays the snapshot's.
-//! - Receiver clock events: when the least-squares GPS clock and the predicted clock differ
-//!   by more than five predicted σ plus 30 m (a whole-millisecond step of a steering
-//!   receiver, or the oscillator restarted by a wake-up), the clock states are re-seated
-//!   from the least-squares clock and the position is kept (common practice).
-//! - Each pseudorange: h(x) = |s − p| + b + isb(system) − c·dt_sat + atmosphere, with the
-//!   snapshot's corrections and σ, the satellite rotated for the Earth's rotation during
-//!   the flight to the filter's position; each Doppler: h(x) = u·(v_sat − v) + ḃ − ḋ_sat.
-//!   Sequential scalar updates, each gated by its χ²(1) statistic.
-//! - No usable measurement: a predicted fix for at most `max_coast_s` since the last update.
+//! One epoch while tracking, in order:
+//! 1. predict across the gap since the last epoch (the held profile while held and the gap
+//!    is short; a gap beyond `filter.max_gap_s` ends tracking);
+//! 2. corrections at the predicted position, and each pseudorange's innovation;
+//! 3. **clock event**: when the median innovation exceeds five σ of the predicted clock and
+//!    position plus 30 m, the receiver clock jumped (a whole-millisecond step of a steering
+//!    receiver, or the new clock of a wake-up): the clock bias is re-seated at the predicted
+//!    bias plus that median, and the position kept (common practice);
+//! 4. sequential scalar updates, each gated by its χ²(1) statistic: pseudorange
+//!    `h(x) = |s − p| + b + isb(system) − c·dt_sat + delay` with the satellite rotated for
+//!    the Earth's rotation during the flight, then its range rate
+//!    `h(x) = u·(v_sat − v) + ḃ − ḋ_sat`;
+//! 5. **release** of a held position when those innovations show motion (see
+//!    [`super::hold`]), else the zero-velocity updates while held;
+//! 6. the stationary detector, and the divergence test over the window (see
+//!    [`super::window`]);
+//! 7. no pseudorange applied: a predicted fix, for at most `filter.max_coast_s` since the
+//!    last update.
 
+use super::hold::{
+    shows_motion, Stillness, HELD_PROFILE, HOLD_MAX_GAP_S, RELEASE_SIGMA_MPS,
+    ZERO_VELOCITY_SIGMA_MPS,
+};
+use super::report::{report, Report};
+use super::state::{VEL_X, VEL_Y, VEL_Z};
+use super::window::NisWindow;
 use super::{FilterState, FixPrior, MeasurementRow, ProcessNoise, UpdateOutcome};
 use crate::config::Config;
-use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
+use crate::corrections::iono::IonoCoefficients;
+use crate::corrections::site::Site;
+use crate::frames::{dot, norm, sub};
+use crate::linalg::{add, Mat6};
 use crate::sat::System;
 use crate::snapshot::wls::{sagnac, Candidate, Outcome};
-use crate::solution::{Dop, Fix, FixKind, FixSource, IonoCorrection, Velocity};
+use crate::solution::{FilterEvent, Fix, FixSource};
 use crate::time::GnssTime;
+use heapless::Vec;
 
 /// What the engine keeps of the filter between epochs.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -29,68 +48,160 @@ pub(crate) struct Tracked {
     state: FilterState,
     /// Time of the state.
     time: GnssTime,
-    /// Last epoch whose measurements updated the state.
+    /// Last epoch whose pseudoranges updated the state.
     updated: GnssTime,
+    still: Stillness,
+    window: NisWindow,
 }
 
-/// Runs the filter stage. `fates` receives, per candidate, what the filter did with its
-/// pseudorange. Returns the fix to report: `None` to keep the snapshot's outcome.
-pub(crate) fn track(
+/// The epoch's inputs besides the candidates.
+pub(crate) struct Context<'a> {
+    pub cfg: &'a Config,
+    pub iono: Option<&'a IonoCoefficients>,
+    /// GPS time of week of the epoch, s.
+    pub tow_s: f64,
+    pub time: GnssTime,
+}
+
+/// What a tracked epoch gave.
+#[expect(
+    clippy::large_enum_variant,
+    reason = "returned by value; no heap to box into"
+)]
+pub(crate) enum Step {
+    /// A filtered, held or predicted fix.
+    Fix(Fix, FilterEvent),
+    /// Tracking ended (or never started): the engine solves by least squares and starts
+    /// the filter again from that fix.
+    Lost(FilterEvent),
+}
+
+/// Runs one tracked epoch. `out` receives, per candidate, its corrections and what the
+/// filter did with its pseudorange and range rate.
+pub(crate) fn step(
     tracked: &mut Option<Tracked>,
-    cfg: &Config,
-    t: GnssTime,
-    snapshot: Option<&Fix>,
+    ctx: &Context<'_>,
     cands: &[Candidate],
-    outcomes: &[Outcome],
-    fates: &mut [Option<UpdateOutcome>],
-) -> Option<Fix> {
-    let f = &cfg.filter;
+    out: &mut [Outcome],
+) -> Step {
+    let Some(tr) = tracked.as_mut() else {
+        return Step::Lost(FilterEvent::Started);
+    };
+    let mut event = FilterEvent::None;
+    let dt = ctx.time.since(tr.time).as_secs_f64();
+    if tr.still.held() && dt > HOLD_MAX_GAP_S {
+        tr.still = Stillness::Moving;
+        if tr
+            .state
+            .free_velocity(RELEASE_SIGMA_MPS * RELEASE_SIGMA_MPS)
+            .is_ok()
+        {
+            event = FilterEvent::HoldReleased;
+        }
+    }
+    let f = &ctx.cfg.filter;
     let noise = ProcessNoise {
-        motion: f.motion,
+        motion: if tr.still.held() {
+            HELD_PROFILE
+        } else {
+            f.motion
+        },
         clock: f.clock,
         isb_psd: f.isb_psd,
     };
-    let carried = tracked.take().and_then(|mut tr| {
-        let dt = t.since(tr.time).as_secs_f64();
-        tr.state.predict(dt, f.max_gap_s, &noise).ok()?;
-        tr.time = t;
-        Some(tr)
-    });
-    let Some(mut tr) = carried else {
-        *tracked = snapshot.and_then(|fix| start(fix, t));
-        return None;
-    };
-    let Some(fix) = snapshot else {
-        if t.since(tr.updated).as_secs_f64() > f.max_coast_s {
-            return None;
-        }
-        *tracked = Some(tr);
-        return Some(report(&tr.state, None, FixSource::Predicted));
-    };
-    reseat_clock_on_event(&mut tr.state, fix);
-    let mut applied = false;
-    for ((c, o), fate) in cands.iter().zip(outcomes).zip(fates.iter_mut()) {
-        if !o.used {
+    if tr.state.predict(dt, f.max_gap_s, &noise).is_err() {
+        *tracked = None;
+        return Step::Lost(FilterEvent::RestartedAfterGap);
+    }
+    tr.time = ctx.time;
+
+    let site = Site::new(ctx.cfg, ctx.iono, ctx.tow_s, tr.state.position());
+    let mut innovations: Vec<f64, 32> = Vec::new();
+    for (c, o) in cands.iter().zip(out.iter_mut()) {
+        *o = Outcome::default();
+        let Some((u, rho)) = line_of_sight(&tr.state, c) else {
             continue;
-        }
-        *fate = pseudorange_update(&mut tr.state, c, o, f.gate);
-        applied |= matches!(fate, Some(UpdateOutcome::Applied { .. }));
-        if let Some(rate) = c.range_rate_mps {
-            let sigma = cfg.snapshot.doppler_sigma_mps * f64::from(c.cn0_factor);
-            let _ = range_rate_update(&mut tr.state, c, rate, sigma, f.gate);
+        };
+        let k = site.apply(c.sat_input(), u);
+        o.el_az = Some(k.el_az);
+        o.masked = k.masked;
+        o.delay_m = k.delay_m;
+        o.sigma_m = k.sigma_m;
+        o.model_var_m2 = k.model_var_m2;
+        o.row = [-u[0], -u[1], -u[2]];
+        if !o.masked {
+            let _ = innovations.push(pseudorange_innovation(&tr.state, c, o, rho));
         }
     }
-    if applied {
-        tr.updated = t;
+    if reseat_on_clock_event(&mut tr.state, &innovations) {
+        event = FilterEvent::ClockReseated;
     }
-    *tracked = Some(tr);
-    Some(report(&tr.state, Some(fix), FixSource::Filtered))
+    let tally = update_all(&mut tr.state, cands, out, ctx.cfg);
+    if tr.still.held() && tally.shows_motion() {
+        tr.still = Stillness::Moving;
+        if tr
+            .state
+            .free_velocity(RELEASE_SIGMA_MPS * RELEASE_SIGMA_MPS)
+            .is_ok()
+        {
+            event = FilterEvent::HoldReleased;
+        }
+    }
+    if tr.still.held() {
+        zero_velocity(&mut tr.state, f.gate);
+    }
+    let [vx, vy, vz] = tr.state.velocity();
+    let vc = tr.state.velocity_cov();
+    let sigma = libm::sqrt(vc[0][0].max(vc[1][1]).max(vc[2][2]));
+    let speed = libm::sqrt(vx * vx + vy * vy + vz * vz);
+    if tally.applied > 0 {
+        tr.updated = ctx.time;
+        tr.still = tr.still.after(f, ctx.time, speed, sigma);
+    }
+    tr.window
+        .push(tally.nis_sum as f32, tally.applied, tally.gated);
+    if tr.window.diverged() {
+        *tracked = None;
+        return Step::Lost(FilterEvent::RestartedDiverged);
+    }
+    let source = match (tally.applied, tr.still.held()) {
+        (0, _) => FixSource::Predicted,
+        (_, true) => FixSource::Held,
+        (_, false) => FixSource::Filtered,
+    };
+    if tally.applied == 0 && ctx.time.since(tr.updated).as_secs_f64() > f.max_coast_s {
+        *tracked = None;
+        return Step::Lost(FilterEvent::CoastEnded);
+    }
+    let fix = report(&Report {
+        state: &tr.state,
+        source,
+        used: tally.applied,
+        rates_used: tally.rates,
+        nis_sum: tally.nis_sum,
+        geometry: &tally.geometry,
+        present: tally.present,
+        iono_applied: site.iono_applied(),
+    });
+    match fix {
+        Some(fix) if fix_plausible(&fix, ctx.cfg) => Step::Fix(fix, event),
+        _ => {
+            *tracked = None;
+            Step::Lost(FilterEvent::RestartedDiverged)
+        }
+    }
 }
 
-/// A filter started from a least-squares fix (σ from its covariance, at least 1 m; the
-/// velocity from its Doppler solution or zero ± 30 m/s; the clock drift likewise, or zero
-/// ± 300 m/s, a TCXO's ±1 ppm).
-fn start(fix: &Fix, t: GnssTime) -> Option<Tracked> {
+/// Whether the filtered position lies within the configured height span.
+fn fix_plausible(fix: &Fix, cfg: &Config) -> bool {
+    let (lo, hi) = cfg.snapshot.height_span_m;
+    (lo..=hi).contains(&fix.geodetic.height_m)
+}
+
+/// A filter started from a least-squares fix: position and clocks with the fix's largest
+/// position variance (at least 1 m²), the Doppler velocity and drift when the fix has them,
+/// else zero ± 30 m/s and zero ± 300 m/s (a TCXO's ±1 ppm).
+pub(crate) fn start(fix: &Fix, t: GnssTime) -> Option<Tracked> {
     let c = fix.covariance_enu_m2;
     let pos_var = (c[0][0].max(c[1][1]).max(c[2][2])).max(1.0);
     let (velocity, vel_var, drift, drift_var) = match fix.velocity {
@@ -107,7 +218,7 @@ fn start(fix: &Fix, t: GnssTime) -> Option<Tracked> {
             .get(k)
             .copied()
             .flatten()
-            .map(|b| b - gps)
+            .map_or(0.0, |b| b - gps)
     };
     let state = FilterState::from_fix(&FixPrior {
         position_m: fix.ecef_m,
@@ -118,7 +229,7 @@ fn start(fix: &Fix, t: GnssTime) -> Option<Tracked> {
         clock_bias_var_m2: 4.0 * pos_var,
         clock_drift_mps: drift,
         clock_drift_var_m2ps2: drift_var,
-        isb_m: [isb(1).unwrap_or(0.0), isb(2).unwrap_or(0.0)],
+        isb_m: [isb(1), isb(2)],
         isb_var_m2: 100.0,
     })
     .ok()?;
@@ -126,31 +237,170 @@ fn start(fix: &Fix, t: GnssTime) -> Option<Tracked> {
         state,
         time: t,
         updated: t,
+        still: Stillness::Moving,
+        window: NisWindow::default(),
     })
 }
 
-/// Re-seats the clock states from the least-squares fix when they disagree beyond what the
-/// prediction allows (see the module documentation).
-fn reseat_clock_on_event(state: &mut FilterState, fix: &Fix) {
-    let Some(gps) = fix.system_clock_m[0] else {
-        return;
+/// The lower median of `values` (O(n²) comparisons, no sorting code: n ≤ 32).
+fn median(values: &[f64]) -> Option<f64> {
+    let half = values.len() / 2;
+    values.iter().copied().find(|&v| {
+        let below = values.iter().filter(|&&w| w < v).count();
+        let at_most = values.iter().filter(|&&w| w <= v).count();
+        below <= half && half < at_most
+    })
+}
+
+/// Re-seats the clock bias when the median innovation exceeds what the prediction allows
+/// (see the module documentation). Returns whether it did.
+fn reseat_on_clock_event(state: &mut FilterState, innovations: &[f64]) -> bool {
+    let Some(m) = median(innovations) else {
+        return false;
     };
+    let p = state.position_cov();
+    let spread = state.clock_cov()[0][0] + p[0][0] + p[1][1] + p[2][2];
+    if m.abs() <= 5.0 * libm::sqrt(spread) + 30.0 {
+        return false;
+    }
     let (b, drift) = state.clock();
-    let var = state.clock_cov()[0][0];
-    if (gps - b).abs() > 5.0 * libm::sqrt(var) + 30.0 {
-        let drift_var = state.clock_cov()[1][1];
-        let _ = state.reseat_clock(gps, 100.0, drift, drift_var.max(1.0));
+    let drift_var = state.clock_cov()[1][1];
+    let var = 900.0 + p[0][0] + p[1][1] + p[2][2];
+    state.reseat_clock(b + m, var, drift, drift_var).is_ok()
+}
+
+/// What the updates of an epoch did.
+struct Tally {
+    applied: u8,
+    gated: u8,
+    rates: u8,
+    nis_sum: f64,
+    /// Unweighted normal matrix of the applied pseudoranges (for the DOP).
+    geometry: Mat6,
+    present: [bool; 3],
+    /// Σ NIS of every range rate tested (applied or gated), and how many.
+    rate_nis: f64,
+    rate_tested: u16,
+    /// Σ NIS of every pseudorange tested, each capped at the gate, and how many.
+    range_nis_capped: f64,
+    range_tested: u16,
+}
+
+impl Tally {
+    /// Whether the epoch's sequential innovations show motion against a held state: the
+    /// range rates when there are any (a blunder in one pseudorange must not release a
+    /// parked asset), else the pseudoranges, each capped at the gate for the same reason.
+    fn shows_motion(&self) -> bool {
+        if self.rate_tested > 0 {
+            shows_motion(self.rate_nis, self.rate_tested)
+        } else {
+            shows_motion(self.range_nis_capped, self.range_tested)
+        }
     }
 }
 
-/// The state's inter-system bias for `sys` (0 for GPS).
-fn isb(state: &FilterState, sys: usize) -> f64 {
-    let [e, c] = state.inter_system_biases();
-    match sys {
-        1 => e,
-        2 => c,
-        _ => 0.0,
+/// The sequential updates of every unmasked candidate, recorded in `out`.
+fn update_all(
+    state: &mut FilterState,
+    cands: &[Candidate],
+    out: &mut [Outcome],
+    cfg: &Config,
+) -> Tally {
+    let gate = cfg.filter.gate;
+    let mut t = Tally {
+        applied: 0,
+        gated: 0,
+        rates: 0,
+        nis_sum: 0.0,
+        geometry: [[0.0; 6]; 6],
+        present: [false; 3],
+        rate_nis: 0.0,
+        rate_tested: 0,
+        range_nis_capped: 0.0,
+        range_tested: 0,
+    };
+    for (c, o) in cands.iter().zip(out.iter_mut()).filter(|(_, o)| !o.masked) {
+        let Some((u, rho)) = line_of_sight(state, c) else {
+            continue;
+        };
+        let nu = pseudorange_innovation(state, c, o, rho);
+        let row = MeasurementRow::pseudorange(u, system(c));
+        let result = state.update(&row, nu, range_variance(cfg, o), gate);
+        if let Ok(r) = result {
+            t.range_nis_capped += r.nis().min(gate);
+            t.range_tested = t.range_tested.saturating_add(1);
+        }
+        match result {
+            Ok(UpdateOutcome::Applied { nis }) => {
+                o.used = true;
+                o.residual_m = nu;
+                t.applied = t.applied.saturating_add(1);
+                t.nis_sum += nis;
+                add_geometry(&mut t.geometry, u, c.sys);
+                if let Some(p) = t.present.get_mut(c.sys) {
+                    *p = true;
+                }
+            }
+            Ok(UpdateOutcome::Gated { nis }) => {
+                o.gated_nis = Some(nis as f32);
+                t.gated = t.gated.saturating_add(1);
+            }
+            Err(_) => {}
+        }
+        if let (true, Some(rate)) = (o.used, c.range_rate_mps) {
+            let nu = rate - predicted_rate(state, c, u);
+            let s = doppler_sigma(cfg, c);
+            let row = MeasurementRow::range_rate(u);
+            let result = state.update(&row, nu, s * s, gate);
+            if let Ok(r) = result {
+                t.rate_nis += r.nis();
+                t.rate_tested = t.rate_tested.saturating_add(1);
+            }
+            if let Ok(UpdateOutcome::Applied { .. }) = result {
+                o.rate_innovation_mps = Some(nu as f32);
+                t.rates = t.rates.saturating_add(1);
+            }
+        }
     }
+    t
+}
+
+/// Adds a line of sight to the unweighted normal matrix (position and the system's clock).
+fn add_geometry(g: &mut Mat6, u: [f64; 3], sys: usize) {
+    let idx = [0, 1, 2, sys.saturating_add(3)];
+    let val = [-u[0], -u[1], -u[2], 1.0];
+    for (&i, &a) in idx.iter().zip(&val) {
+        for (&j, &b) in idx.iter().zip(&val) {
+            add(g, i, j, a * b);
+        }
+    }
+}
+
+/// Zero-velocity measurements on the three axes while held.
+fn zero_velocity(state: &mut FilterState, gate: f64) {
+    for k in [VEL_X, VEL_Y, VEL_Z] {
+        let v = state.x().get(k).copied().unwrap_or(0.0);
+        let row = MeasurementRow::single(k, 1.0);
+        let var = ZERO_VELOCITY_SIGMA_MPS * ZERO_VELOCITY_SIGMA_MPS;
+        let _ = state.update(&row, -v, var, gate);
+    }
+}
+
+fn system(c: &Candidate) -> System {
+    System::ALL.get(c.sys).copied().unwrap_or(System::Gps)
+}
+
+/// The filter's pseudorange variance: the code σ model, the signal-in-space error and what
+/// the atmosphere models leave. The filter needs all of them: it tests its innovations
+/// against this variance, where the least-squares weights only need the ratios.
+fn range_variance(cfg: &Config, o: &Outcome) -> f64 {
+    let ure = cfg.filter.ure_sigma_m;
+    o.sigma_m * o.sigma_m + ure * ure + o.model_var_m2
+}
+
+/// σ of a range rate: the configured Doppler σ scaled like the pseudorange's by C/N0.
+fn doppler_sigma(cfg: &Config, c: &Candidate) -> f64 {
+    cfg.snapshot.doppler_sigma_mps * f64::from(c.cn0_factor)
 }
 
 /// Unit line of sight from the filter's position to the candidate's satellite, and range.
@@ -162,102 +412,29 @@ fn line_of_sight(state: &FilterState, c: &Candidate) -> Option<([f64; 3], f64)> 
     (rho > 0.0).then(|| ([d[0] / rho, d[1] / rho, d[2] / rho], rho))
 }
 
-fn pseudorange_update(
-    state: &mut FilterState,
-    c: &Candidate,
-    o: &Outcome,
-    gate: f64,
-) -> Option<UpdateOutcome> {
-    let (u, rho) = line_of_sight(state, c)?;
+/// The state's inter-system bias for the candidate's system (0 for GPS).
+fn isb(state: &FilterState, c: &Candidate) -> f64 {
+    let [e, b] = state.inter_system_biases();
+    match c.sys {
+        1 => e,
+        2 => b,
+        _ => 0.0,
+    }
+}
+
+/// The pseudorange innovation `z − h(x)` at the current state, `rho` the geometric range
+/// from [`line_of_sight`].
+fn pseudorange_innovation(state: &FilterState, c: &Candidate, o: &Outcome, rho: f64) -> f64 {
     let (b, _) = state.clock();
-    let predicted = rho + b + isb(state, c.sys) - c.clock_m + o.delay_m;
-    let system = System::ALL.get(c.sys).copied().unwrap_or(System::Gps);
-    let row = MeasurementRow::pseudorange(u, system);
-    state
-        .update(&row, c.pr_m - predicted, o.sigma_m * o.sigma_m, gate)
-        .ok()
+    c.pr_m - (rho + b + isb(state, c) - c.clock_m + o.delay_m)
 }
 
-fn range_rate_update(
-    state: &mut FilterState,
-    c: &Candidate,
-    rate: f64,
-    sigma: f64,
-    gate: f64,
-) -> Option<UpdateOutcome> {
-    let (u, _) = line_of_sight(state, c)?;
+/// The predicted range rate `u·(v_sat − v) + ḃ − ḋ_sat`.
+fn predicted_rate(state: &FilterState, c: &Candidate, u: [f64; 3]) -> f64 {
     let (_, drift) = state.clock();
-    let v = state.velocity();
-    let predicted = dot(u, sub(c.vel, v)) + drift - c.clock_drift_mps;
-    let row = MeasurementRow::range_rate(u);
-    state
-        .update(&row, rate - predicted, sigma * sigma, gate)
-        .ok()
+    dot(u, sub(c.vel, state.velocity())) + drift - c.clock_drift_mps
 }
 
-/// The fix the filter reports: its position, velocity and clock with their covariance,
-/// with the snapshot's geometry figures when there is a snapshot this epoch.
-fn report(state: &FilterState, snapshot: Option<&Fix>, source: FixSource) -> Fix {
-    let ecef_m = state.position();
-    let geodetic = Geodetic::from_ecef(ecef_m);
-    let frame = LocalFrame::new(ecef_m, &geodetic);
-    let (b, drift) = state.clock();
-    let [isb_e, isb_c] = state.inter_system_biases();
-    let v = state.velocity();
-    let velocity = Velocity {
-        ecef_mps: v,
-        enu_mps: frame.rotate(v),
-        clock_drift_mps: drift,
-        covariance_enu_m2s2: rotate_cov(&frame, &state.velocity_cov()),
-        used: snapshot.and_then(|f| f.velocity).map_or(0, |v| v.used),
-    };
-    let base = snapshot.copied().unwrap_or(Fix {
-        kind: FixKind::ThreeD,
-        ecef_m,
-        geodetic,
-        clock_bias_m: b,
-        system_clock_m: [Some(b), None, None],
-        covariance_enu_m2: [[0.0; 3]; 3],
-        dop: Dop::default(),
-        used: 0,
-        iterations: 0,
-        iono: IonoCorrection::None,
-        weighted_sse: 0.0,
-        velocity: None,
-        source,
-    });
-    let mut system_clock_m = base.system_clock_m;
-    for (k, s) in system_clock_m.iter_mut().enumerate() {
-        if s.is_some() {
-            *s = Some(b + [0.0, isb_e, isb_c].get(k).copied().unwrap_or(0.0));
-        }
-    }
-    Fix {
-        ecef_m,
-        geodetic,
-        clock_bias_m: system_clock_m.iter().flatten().next().copied().unwrap_or(b),
-        system_clock_m,
-        covariance_enu_m2: rotate_cov(&frame, &state.position_cov()),
-        velocity: Some(velocity),
-        source,
-        ..base
-    }
-}
-
-/// R·C·Rᵀ: a 3×3 ECEF covariance in east/north/up.
-fn rotate_cov(frame: &LocalFrame, c: &[[f64; 3]; 3]) -> [[f64; 3]; 3] {
-    let mut out = [[0.0; 3]; 3];
-    for (row, a) in out.iter_mut().zip(frame.axes) {
-        for (v, b) in row.iter_mut().zip(frame.axes) {
-            let mut s = 0.0;
-            for (i, x) in a.iter().enumerate() {
-                for (j, y) in b.iter().enumerate() {
-                    let cij = c.get(i).and_then(|r| r.get(j)).copied().unwrap_or(0.0);
-                    s += x * cij * y;
-                }
-            }
-            *v = s;
-        }
-    }
-    out
-}
+#[cfg(test)]
+#[path = "track_tests.rs"]
+mod tests;

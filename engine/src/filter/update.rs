@@ -187,6 +187,18 @@ fn joseph(pij: f64, ki: f64, ui: f64, kj: f64, dj: f64) -> f64 {
 }
 
 impl FilterState {
+    /// The innovation variance `S = hᵀPh + R` of a measurement with row `row` and variance
+    /// `variance`, without updating (for tests of several innovations at once).
+    pub fn innovation_variance(&self, row: &MeasurementRow, variance: f64) -> f64 {
+        let mut s = variance;
+        for (i, hi) in row.h.iter().enumerate().filter(|(_, h)| **h != 0.0) {
+            for (j, hj) in row.h.iter().enumerate().filter(|(_, h)| **h != 0.0) {
+                s += hi * at(&self.p, i, j) * hj;
+            }
+        }
+        s
+    }
+
     /// Applies one scalar measurement: row `h`, innovation `ν = z − h(x)`, measurement
     /// variance `variance` (`R`, in the measurement's unit squared), unless its NIS exceeds
     /// `gate` (a χ²(1) quantile: 3.841 for 95 %, 6.635 for 99 %, 10.83 for 99.9 % \[C:

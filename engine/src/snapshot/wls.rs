@@ -16,18 +16,14 @@
 //! azimuth/elevation, Klobuchar and the troposphere mapping; per iteration one 6×6
 //! Cholesky; once per epoch one geodetic conversion and the standard atmosphere.
 
-use crate::config::{Config, IonoModel, TropoModel};
+use crate::config::Config;
 use crate::corrections::iono::IonoCoefficients;
-use crate::corrections::tropo::ZenithDelay;
+use crate::corrections::site::{SatInput, Site};
 use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
 use crate::linalg::{add, Cholesky6, Mat, Mat6};
 use crate::sat::{System, SPEED_OF_LIGHT};
 use crate::solution::{Dop, Fix, FixKind, FixSource, IonoCorrection, NoFixReason};
-use libm::{sin, sqrt};
-
-/// Lowest sin(elevation) used in the σ model, so a satellite at the horizon (reachable with a
-/// mask of 0°) gets a large but finite σ.
-const MIN_SIN_EL: f64 = 0.05;
+use libm::sqrt;
 
 /// The shortest range to a navigation satellite from the ground, m (MEO at zenith).
 const MIN_RANGE_M: f64 = 1.9e7;
@@ -56,6 +52,14 @@ pub(crate) struct Candidate {
 }
 
 impl Candidate {
+    /// What the corrections need of this satellite.
+    pub fn sat_input(&self) -> SatInput {
+        SatInput {
+            iono_scale: self.iono_scale,
+            cn0_factor: self.cn0_factor,
+        }
+    }
+
     /// Earth rotation rate of the satellite's system, rad/s (for the Sagnac rotation).
     pub fn omega_e(&self) -> f64 {
         System::ALL
@@ -77,11 +81,17 @@ pub(crate) struct Outcome {
     pub residual_m: f64,
     /// σ given, m.
     pub sigma_m: f64,
+    /// Variance left by the atmosphere models, m² (see `SatCorrection::model_var_m2`).
+    pub model_var_m2: f64,
     /// Ionosphere and troposphere delay applied, m.
     pub delay_m: f64,
     /// Partial derivatives row (−unit line of sight), kept for the post-fit residual and
     /// the velocity solution.
     pub row: [f64; 3],
+    /// The navigation filter's innovation test refused the pseudorange: its NIS.
+    pub gated_nis: Option<f32>,
+    /// The navigation filter applied the range rate: its innovation, m/s.
+    pub rate_innovation_mps: Option<f32>,
 }
 
 /// Inputs of one solution besides the candidates.
@@ -103,17 +113,12 @@ pub(crate) fn solve(
     out: &mut [Outcome],
 ) -> Result<Fix, NoFixReason> {
     let cfg = setup.config;
-    let sin_mask = sin(cfg.snapshot.elevation_mask_deg.to_radians());
     let mut pos = setup.seed;
     let mut clk = [0.0f64; 3];
     let mut corrections_on = norm(pos) > 6.0e6;
-    let iono = setup
-        .iono
-        .filter(|c| cfg.corrections.ionosphere == IonoModel::Broadcast && c.is_finite());
     let mut iterations = 0u8;
     let mut corr_at: Option<[f64; 3]> = None;
-    let mut geo = Geodetic::default();
-    let mut frame = LocalFrame::new(pos, &geo);
+    let mut site: Option<Site<'_>> = None;
     loop {
         iterations = iterations.saturating_add(1);
         // Elevation, mask, atmosphere and weights change by far less than the noise over a
@@ -121,12 +126,9 @@ pub(crate) fn solve(
         // more than 1 km from where they were computed.
         let refresh = corrections_on && corr_at.is_none_or(|p| norm(sub(pos, p)) > 1_000.0);
         if refresh {
-            geo = Geodetic::from_ecef(pos);
-            frame = LocalFrame::new(pos, &geo);
+            site = Some(Site::new(cfg, setup.iono, setup.tow_s, pos));
             corr_at = Some(pos);
         }
-        let zenith = (refresh && cfg.corrections.troposphere == TropoModel::StandardAtmosphere)
-            .then(|| ZenithDelay::standard_atmosphere(geo.lat_rad, geo.height_m));
         let mut normal: Mat6 = [[0.0; 6]; 6];
         let mut geometry: Mat6 = [[0.0; 6]; 6];
         let mut rhs = [0.0f64; 6];
@@ -141,39 +143,13 @@ pub(crate) fn solve(
                 continue;
             }
             let u = [los[0] / rho, los[1] / rho, los[2] / rho];
-            if refresh {
-                let [e, n, up] = frame.rotate(u);
-                // Elevation and azimuth only feed the ionosphere model and reports: single
-                // precision is ample (iono_tests.rs bounds the model's f32 error at 1 mm).
-                let hor = sqrt(e * e + n * n);
-                let el = libm::atan2f(up as f32, hor as f32);
-                let az = libm::atan2f(e as f32, n as f32);
-                o.el_az = Some((el, az));
-                o.masked = up < sin_mask;
-                let mut delay = 0.0;
-                if let Some(k) = iono {
-                    let (sa, ca) = if hor > 0.0 {
-                        ((e / hor) as f32, (n / hor) as f32)
-                    } else {
-                        (0.0, 1.0)
-                    };
-                    let d = k.delay_l1_m_f32(
-                        geo.lat_rad as f32,
-                        geo.lon_rad as f32,
-                        sa,
-                        ca,
-                        el,
-                        setup.tow_s,
-                    );
-                    delay += f64::from(c.iono_scale * d);
-                }
-                if let Some(z) = &zenith {
-                    delay += z.slant_m(up);
-                }
-                o.delay_m = delay;
-                o.sigma_m = (cfg.snapshot.sigma_floor_m
-                    + cfg.snapshot.sigma_elevation_m / up.max(MIN_SIN_EL))
-                    * f64::from(c.cn0_factor);
+            if let (true, Some(site)) = (refresh, &site) {
+                let k = site.apply(c.sat_input(), u);
+                o.el_az = Some(k.el_az);
+                o.masked = k.masked;
+                o.delay_m = k.delay_m;
+                o.sigma_m = k.sigma_m;
+                o.model_var_m2 = k.model_var_m2;
             } else if !corrections_on {
                 o.delay_m = 0.0;
                 o.sigma_m = 1.0;
@@ -268,7 +244,7 @@ pub(crate) fn solve(
                     kind,
                     used,
                     iterations,
-                    iono_used: iono.is_some(),
+                    iono_used: site.as_ref().is_some_and(Site::iono_applied),
                     normal_inv: chol.inverse(),
                     geometry,
                     dpos,
@@ -326,19 +302,8 @@ fn finish(
         }
     }
     let cov = enu_block(&frame, &f.normal_inv);
-    let ginv = Cholesky6::new(&f.geometry)
-        .ok_or(NoFixReason::SingularGeometry)?
-        .inverse();
-    let q = enu_block(&frame, &ginv);
+    let dop = dop(&f.geometry, &f.present, &frame).ok_or(NoFixReason::SingularGeometry)?;
     let first = f.present.iter().position(|p| *p).unwrap_or(0);
-    let tdop2 = ginv
-        .get(first.saturating_add(3))
-        .and_then(|r| r.get(first.saturating_add(3)))
-        .copied()
-        .unwrap_or(0.0);
-    let [[qe, _, _], [_, qn, _], [_, _, qu]] = q;
-    let hdop2 = qe + qn;
-    let pdop2 = hdop2 + qu;
     let mut system_clock_m = [None; 3];
     for ((s, p), c) in system_clock_m.iter_mut().zip(f.present).zip(f.clk) {
         if p {
@@ -352,13 +317,7 @@ fn finish(
         clock_bias_m: f.clk.get(first).copied().unwrap_or(0.0),
         system_clock_m,
         covariance_enu_m2: cov,
-        dop: Dop {
-            gdop: sqrt(pdop2 + tdop2),
-            pdop: sqrt(pdop2),
-            hdop: sqrt(hdop2),
-            vdop: sqrt(qu),
-            tdop: sqrt(tdop2),
-        },
+        dop,
         used: f.used,
         iterations: f.iterations,
         iono: if f.iono_used {
@@ -369,6 +328,30 @@ fn finish(
         weighted_sse: sse,
         velocity: None,
         source: FixSource::Snapshot,
+    })
+}
+
+/// The dilution of precision of an unweighted geometry matrix `GᵀG` (position and the three
+/// system clocks, absent systems pinned), in the local frame; TDOP is that of the first
+/// system present. `None` when the matrix is singular.
+pub(crate) fn dop(geometry: &Mat6, present: &[bool; 3], frame: &LocalFrame) -> Option<Dop> {
+    let ginv = Cholesky6::new(geometry)?.inverse();
+    let q = enu_block(frame, &ginv);
+    let first = present.iter().position(|p| *p).unwrap_or(0);
+    let tdop2 = ginv
+        .get(first.saturating_add(3))
+        .and_then(|r| r.get(first.saturating_add(3)))
+        .copied()
+        .unwrap_or(0.0);
+    let [[qe, _, _], [_, qn, _], [_, _, qu]] = q;
+    let hdop2 = qe + qn;
+    let pdop2 = hdop2 + qu;
+    Some(Dop {
+        gdop: sqrt(pdop2 + tdop2),
+        pdop: sqrt(pdop2),
+        hdop: sqrt(hdop2),
+        vdop: sqrt(qu),
+        tdop: sqrt(tdop2),
     })
 }
 

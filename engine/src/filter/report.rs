@@ -1,0 +1,79 @@
+//! The fix the filter reports: its position, velocity and clocks with their covariance
+//! rotated to east/north/up, and the DOP of the pseudoranges it applied.
+
+use super::FilterState;
+use crate::frames::{Geodetic, LocalFrame};
+use crate::linalg::Mat6;
+use crate::snapshot::wls::{dop, enu_block};
+use crate::solution::{Dop, Fix, FixKind, FixSource, IonoCorrection, Velocity};
+
+/// What the report needs besides the state.
+pub(crate) struct Report<'a> {
+    pub state: &'a FilterState,
+    pub source: FixSource,
+    /// Pseudoranges applied this epoch.
+    pub used: u8,
+    /// Range rates applied this epoch.
+    pub rates_used: u8,
+    /// Σ NIS of the applied pseudoranges.
+    pub nis_sum: f64,
+    /// Unweighted normal matrix of the applied pseudoranges.
+    pub geometry: &'a Mat6,
+    /// Systems among them.
+    pub present: [bool; 3],
+    pub iono_applied: bool,
+}
+
+/// The fix; `None` only for a position with no geodetic frame (never for a healthy state).
+pub(crate) fn report(r: &Report<'_>) -> Option<Fix> {
+    let s = r.state;
+    let ecef_m = s.position();
+    let geodetic = Geodetic::from_ecef(ecef_m);
+    if !geodetic.height_m.is_finite() {
+        return None;
+    }
+    let frame = LocalFrame::new(ecef_m, &geodetic);
+    let (b, drift) = s.clock();
+    let [isb_e, isb_c] = s.inter_system_biases();
+    let v = s.velocity();
+    let mut system_clock_m = [None; 3];
+    for ((slot, present), isb) in system_clock_m
+        .iter_mut()
+        .zip(r.present)
+        .zip([0.0, isb_e, isb_c])
+    {
+        if present {
+            *slot = Some(b + isb);
+        }
+    }
+    let dop = if r.used >= 4 {
+        dop(r.geometry, &r.present, &frame).unwrap_or_default()
+    } else {
+        Dop::default()
+    };
+    Some(Fix {
+        kind: FixKind::ThreeD,
+        ecef_m,
+        geodetic,
+        clock_bias_m: system_clock_m.iter().flatten().next().copied().unwrap_or(b),
+        system_clock_m,
+        covariance_enu_m2: enu_block(&frame, &s.position_cov()),
+        dop,
+        used: r.used,
+        iterations: 0,
+        iono: if r.iono_applied {
+            IonoCorrection::Klobuchar
+        } else {
+            IonoCorrection::None
+        },
+        weighted_sse: r.nis_sum,
+        velocity: Some(Velocity {
+            ecef_mps: v,
+            enu_mps: frame.rotate(v),
+            clock_drift_mps: drift,
+            covariance_enu_m2s2: enu_block(&frame, &s.velocity_cov()),
+            used: r.rates_used,
+        }),
+        source: r.source,
+    })
+}
