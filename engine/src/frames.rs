@@ -58,6 +58,8 @@ impl Geodetic {
     /// `tan φ = (z + e²N sin φ)/p`, which contract by at most e² ≈ 0.0067 each: better than
     /// 0.1 mm from −400 m to 20,000 km altitude, poles included (checked against pymap3d on
     /// 1,000+ points). At the Earth's centre it returns latitude 0, height −a.
+    // Not inlined: called from several stages, one copy of its code saves flash on the target.
+    #[inline(never)]
     pub fn from_ecef(p: [f64; 3]) -> Self {
         let [x, y, z] = p;
         let rho = sqrt(x * x + y * y);
@@ -101,6 +103,7 @@ pub struct LocalFrame {
 
 impl LocalFrame {
     /// The frame at `origin`, oriented by the geodetic latitude/longitude `at`.
+    #[inline(never)]
     pub fn new(origin: [f64; 3], at: &Geodetic) -> Self {
         let (sl, cl) = (sin(at.lat_rad), cos(at.lat_rad));
         let (so, co) = (sin(at.lon_rad), cos(at.lon_rad));

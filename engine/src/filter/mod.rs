@@ -49,6 +49,7 @@
 //! would leave a state non-finite, out of range or with a non-positive variance is refused
 //! with the state unchanged.
 
+pub mod batch;
 pub mod hold;
 pub mod noise;
 pub mod process;
@@ -58,6 +59,7 @@ pub(crate) mod track;
 pub mod update;
 pub mod window;
 
+pub use batch::Batch;
 pub use noise::{ClockNoise, MotionProfile, ParameterError, ProcessNoise};
 pub use process::PredictError;
 pub use state::{FilterState, FixPrior, StateError};

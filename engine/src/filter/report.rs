@@ -4,7 +4,8 @@
 use super::FilterState;
 use crate::frames::{Geodetic, LocalFrame};
 use crate::linalg::Mat6;
-use crate::snapshot::wls::{dop, enu_block};
+use crate::linalg::add;
+use crate::snapshot::wls::{dop, enu_block, Candidate, Outcome};
 use crate::solution::{Dop, Fix, FixKind, FixSource, IonoCorrection, Velocity};
 
 /// What the report needs besides the state.
@@ -17,14 +18,15 @@ pub(crate) struct Report<'a> {
     pub rates_used: u8,
     /// Σ NIS of the applied pseudoranges.
     pub nis_sum: f64,
-    /// Unweighted normal matrix of the applied pseudoranges.
-    pub geometry: &'a Mat6,
-    /// Systems among them.
-    pub present: [bool; 3],
+    /// The candidates and what the filter did with each (the DOP is that of the applied
+    /// pseudoranges).
+    pub cands: &'a [Candidate],
+    pub out: &'a [Outcome],
     pub iono_applied: bool,
 }
 
 /// The fix; `None` only for a position with no geodetic frame (never for a healthy state).
+#[inline(never)]
 pub(crate) fn report(r: &Report<'_>) -> Option<Fix> {
     let s = r.state;
     let ecef_m = s.position();
@@ -36,10 +38,18 @@ pub(crate) fn report(r: &Report<'_>) -> Option<Fix> {
     let (b, drift) = s.clock();
     let [isb_e, isb_c] = s.inter_system_biases();
     let v = s.velocity();
+    let mut geometry: Mat6 = [[0.0; 6]; 6];
+    let mut present = [false; 3];
+    for (c, o) in r.cands.iter().zip(r.out).filter(|(_, o)| o.used) {
+        add_geometry(&mut geometry, o.row, c.sys);
+        if let Some(p) = present.get_mut(c.sys) {
+            *p = true;
+        }
+    }
     let mut system_clock_m = [None; 3];
     for ((slot, present), isb) in system_clock_m
         .iter_mut()
-        .zip(r.present)
+        .zip(present)
         .zip([0.0, isb_e, isb_c])
     {
         if present {
@@ -47,7 +57,7 @@ pub(crate) fn report(r: &Report<'_>) -> Option<Fix> {
         }
     }
     let dop = if r.used >= 4 {
-        dop(r.geometry, &r.present, &frame).unwrap_or_default()
+        dop(&geometry, &present, &frame).unwrap_or_default()
     } else {
         Dop::default()
     };
@@ -76,4 +86,16 @@ pub(crate) fn report(r: &Report<'_>) -> Option<Fix> {
         }),
         source: r.source,
     })
+}
+
+/// Adds a row (−line of sight, m) to the unweighted normal matrix of position and the
+/// system's clock.
+fn add_geometry(g: &mut Mat6, row: [f64; 3], sys: usize) {
+    let idx = [0, 1, 2, sys.saturating_add(3)];
+    let val = [row[0], row[1], row[2], 1.0];
+    for (&i, &a) in idx.iter().zip(&val) {
+        for (&j, &b) in idx.iter().zip(&val) {
+            add(g, i, j, a * b);
+        }
+    }
 }

@@ -319,7 +319,8 @@ impl FilterState {
     /// definite). Reads the lower triangle. Cost: about n³/6 ≈ 170 multiply-adds and ten
     /// square roots, with the engine's one Cholesky kernel (an 800-byte factor).
     pub fn is_positive_definite(&self) -> bool {
-        crate::linalg::Cholesky::<STATE_LEN>::new(&self.p).is_some()
+        let mut a = self.p;
+        crate::linalg::factor_in_place(&mut a)
     }
 
     /// Restarts the receiver clock: bias and drift take the given values and variances and

@@ -30,12 +30,11 @@ use super::hold::{
 use super::report::{report, Report};
 use super::state::{VEL_X, VEL_Y, VEL_Z};
 use super::window::NisWindow;
-use super::{FilterState, FixPrior, MeasurementRow, ProcessNoise, UpdateOutcome};
+use super::{Batch, FilterState, FixPrior, MeasurementRow, ProcessNoise};
 use crate::config::Config;
 use crate::corrections::iono::IonoCoefficients;
 use crate::corrections::site::Site;
 use crate::frames::{dot, norm, sub};
-use crate::linalg::{add, Mat6};
 use crate::sat::System;
 use crate::snapshot::wls::{sagnac, Candidate, Outcome};
 use crate::solution::{FilterEvent, Fix, FixSource};
@@ -78,6 +77,9 @@ pub(crate) enum Step {
 
 /// Runs one tracked epoch. `out` receives, per candidate, its corrections and what the
 /// filter did with its pseudorange and range rate.
+// Not inlined: its frame and the least-squares one are never on the stack together
+// (docs/firmware.md).
+#[inline(never)]
 pub(crate) fn step(
     tracked: &mut Option<Tracked>,
     ctx: &Context<'_>,
@@ -120,6 +122,7 @@ pub(crate) fn step(
     for (c, o) in cands.iter().zip(out.iter_mut()) {
         *o = Outcome::default();
         let Some((u, rho)) = line_of_sight(&tr.state, c) else {
+            o.masked = true;
             continue;
         };
         let k = site.apply(c.sat_input(), u);
@@ -129,26 +132,21 @@ pub(crate) fn step(
         o.sigma_m = k.sigma_m;
         o.model_var_m2 = k.model_var_m2;
         o.row = [-u[0], -u[1], -u[2]];
+        // The innovation before any clock re-seat; `update_all` subtracts the shift.
+        o.residual_m = pseudorange_innovation(&tr.state, c, o, rho);
         if !o.masked {
-            let _ = innovations.push(pseudorange_innovation(&tr.state, c, o, rho));
+            let _ = innovations.push(o.residual_m);
         }
     }
-    if reseat_on_clock_event(&mut tr.state, &innovations) {
+    let shift = reseat_on_clock_event(&mut tr.state, &innovations);
+    if shift != 0.0 {
         event = FilterEvent::ClockReseated;
     }
-    let tally = update_all(&mut tr.state, cands, out, ctx.cfg);
-    if tr.still.held() && tally.shows_motion() {
+    let held = tr.still.held();
+    let tally = update_all(&mut tr.state, cands, out, ctx.cfg, shift, held);
+    if held && tally.motion {
         tr.still = Stillness::Moving;
-        if tr
-            .state
-            .free_velocity(RELEASE_SIGMA_MPS * RELEASE_SIGMA_MPS)
-            .is_ok()
-        {
-            event = FilterEvent::HoldReleased;
-        }
-    }
-    if tr.still.held() {
-        zero_velocity(&mut tr.state, f.gate);
+        event = FilterEvent::HoldReleased;
     }
     let [vx, vy, vz] = tr.state.velocity();
     let vc = tr.state.velocity_cov();
@@ -158,8 +156,7 @@ pub(crate) fn step(
         tr.updated = ctx.time;
         tr.still = tr.still.after(f, ctx.time, speed, sigma);
     }
-    tr.window
-        .push(tally.nis_sum as f32, tally.applied, tally.gated);
+    tr.window.push(tally.nis_sum as f32, tally.tested, tally.gated);
     if tr.window.diverged() {
         *tracked = None;
         return Step::Lost(FilterEvent::RestartedDiverged);
@@ -179,8 +176,8 @@ pub(crate) fn step(
         used: tally.applied,
         rates_used: tally.rates,
         nis_sum: tally.nis_sum,
-        geometry: &tally.geometry,
-        present: tally.present,
+        cands,
+        out,
         iono_applied: site.iono_applied(),
     });
     match fix {
@@ -201,6 +198,7 @@ fn fix_plausible(fix: &Fix, cfg: &Config) -> bool {
 /// A filter started from a least-squares fix: position and clocks with the fix's largest
 /// position variance (at least 1 m²), the Doppler velocity and drift when the fix has them,
 /// else zero ± 30 m/s and zero ± 300 m/s (a TCXO's ±1 ppm).
+#[inline(never)]
 pub(crate) fn start(fix: &Fix, t: GnssTime) -> Option<Tracked> {
     let c = fix.covariance_enu_m2;
     let pos_var = (c[0][0].max(c[1][1]).max(c[2][2])).max(1.0);
@@ -253,136 +251,161 @@ fn median(values: &[f64]) -> Option<f64> {
 }
 
 /// Re-seats the clock bias when the median innovation exceeds what the prediction allows
-/// (see the module documentation). Returns whether it did.
-fn reseat_on_clock_event(state: &mut FilterState, innovations: &[f64]) -> bool {
+/// (see the module documentation). Returns the shift of the bias, m (0 when none).
+fn reseat_on_clock_event(state: &mut FilterState, innovations: &[f64]) -> f64 {
     let Some(m) = median(innovations) else {
-        return false;
+        return 0.0;
     };
     let p = state.position_cov();
     let spread = state.clock_cov()[0][0] + p[0][0] + p[1][1] + p[2][2];
     if m.abs() <= 5.0 * libm::sqrt(spread) + 30.0 {
-        return false;
+        return 0.0;
     }
     let (b, drift) = state.clock();
     let drift_var = state.clock_cov()[1][1];
     let var = 900.0 + p[0][0] + p[1][1] + p[2][2];
-    state.reseat_clock(b + m, var, drift, drift_var).is_ok()
-}
-
-/// What the updates of an epoch did.
-struct Tally {
-    applied: u8,
-    gated: u8,
-    rates: u8,
-    nis_sum: f64,
-    /// Unweighted normal matrix of the applied pseudoranges (for the DOP).
-    geometry: Mat6,
-    present: [bool; 3],
-    /// Σ NIS of every range rate tested (applied or gated), and how many.
-    rate_nis: f64,
-    rate_tested: u16,
-    /// Σ NIS of every pseudorange tested, each capped at the gate, and how many.
-    range_nis_capped: f64,
-    range_tested: u16,
-}
-
-impl Tally {
-    /// Whether the epoch's sequential innovations show motion against a held state: the
-    /// range rates when there are any (a blunder in one pseudorange must not release a
-    /// parked asset), else the pseudoranges, each capped at the gate for the same reason.
-    fn shows_motion(&self) -> bool {
-        if self.rate_tested > 0 {
-            shows_motion(self.rate_nis, self.rate_tested)
-        } else {
-            shows_motion(self.range_nis_capped, self.range_tested)
-        }
+    match state.reseat_clock(b + m, var, drift, drift_var) {
+        Ok(()) => m,
+        Err(_) => 0.0,
     }
 }
 
-/// The sequential updates of every unmasked candidate, recorded in `out`.
+/// What the update of an epoch did.
+struct Tally {
+    /// Pseudoranges applied.
+    applied: u8,
+    /// Pseudoranges the gate refused.
+    gated: u8,
+    /// Range rates applied.
+    rates: u8,
+    /// Measurements in the batch (pseudoranges, range rates, zero-velocity rows).
+    tested: u8,
+    /// The batch's joint NIS.
+    nis_sum: f64,
+    /// A held asset's innovations show motion (its velocity was freed).
+    motion: bool,
+}
+
+/// The weighted spread of innovations about their weighted mean, `Σ w ν² − (Σ w ν)²/Σ w`:
+/// χ² with n − 1 degrees of freedom when they differ only by noise and a common offset
+/// (the clock bias or drift), whatever that offset (common practice: a residual test with
+/// the common mode removed).
+#[derive(Default)]
+struct Spread {
+    w: f64,
+    wn: f64,
+    wn2: f64,
+    n: u16,
+}
+
+impl Spread {
+    fn add(&mut self, innovation: f64, variance: f64) {
+        let w = 1.0 / variance;
+        self.w += w;
+        self.wn += w * innovation;
+        self.wn2 += w * innovation * innovation;
+        self.n = self.n.saturating_add(1);
+    }
+
+    /// Whether the spread exceeds the 0.999 quantile of χ²(n − 1); `None` below two values.
+    fn shows_motion(&self) -> Option<bool> {
+        (self.n >= 2 && self.w > 0.0)
+            .then(|| shows_motion(self.wn2 - self.wn * self.wn / self.w, self.n.saturating_sub(1)))
+    }
+}
+
+/// Gates each unmasked candidate's pseudorange and range rate on its own innovation (χ²(1)
+/// against the prior `S = hᵀPh + R`), applies the rest in one batch (with zero-velocity
+/// rows while held and still), and records in `out` what became of each. `shift` is the
+/// clock re-seat already applied to the state, to take from the stored innovations.
+#[inline(never)]
 fn update_all(
     state: &mut FilterState,
     cands: &[Candidate],
     out: &mut [Outcome],
     cfg: &Config,
+    shift: f64,
+    held: bool,
 ) -> Tally {
     let gate = cfg.filter.gate;
+    let mut batch = Batch::new();
+    let (mut ranges, mut rates) = (Spread::default(), Spread::default());
     let mut t = Tally {
         applied: 0,
         gated: 0,
         rates: 0,
+        tested: 0,
         nis_sum: 0.0,
-        geometry: [[0.0; 6]; 6],
-        present: [false; 3],
-        rate_nis: 0.0,
-        rate_tested: 0,
-        range_nis_capped: 0.0,
-        range_tested: 0,
+        motion: false,
     };
     for (c, o) in cands.iter().zip(out.iter_mut()).filter(|(_, o)| !o.masked) {
-        let Some((u, rho)) = line_of_sight(state, c) else {
+        let u = [-o.row[0], -o.row[1], -o.row[2]];
+        let nu = o.residual_m - shift;
+        let r = range_variance(cfg, o);
+        let row = MeasurementRow::pseudorange(u, system(c));
+        if held {
+            ranges.add(nu, r);
+        }
+        let nis = nu * nu / state.innovation_variance(&row, r);
+        // NaN (a zero S) fails the gate too.
+        if nis.is_nan() || nis > gate {
+            o.gated_nis = Some(nis as f32);
+            t.gated = t.gated.saturating_add(1);
+            continue;
+        }
+        if batch.add(&row, nu, r).is_err() {
+            continue;
+        }
+        o.used = true;
+        o.residual_m = nu;
+        t.applied = t.applied.saturating_add(1);
+        let Some(rate) = c.range_rate_mps else {
             continue;
         };
-        let nu = pseudorange_innovation(state, c, o, rho);
-        let row = MeasurementRow::pseudorange(u, system(c));
-        let result = state.update(&row, nu, range_variance(cfg, o), gate);
-        if let Ok(r) = result {
-            t.range_nis_capped += r.nis().min(gate);
-            t.range_tested = t.range_tested.saturating_add(1);
+        let nu = rate - predicted_rate(state, c, u);
+        let s = doppler_sigma(cfg, c);
+        let row = MeasurementRow::range_rate(u);
+        if held {
+            rates.add(nu, s * s);
         }
-        match result {
-            Ok(UpdateOutcome::Applied { nis }) => {
-                o.used = true;
-                o.residual_m = nu;
-                t.applied = t.applied.saturating_add(1);
-                t.nis_sum += nis;
-                add_geometry(&mut t.geometry, u, c.sys);
-                if let Some(p) = t.present.get_mut(c.sys) {
-                    *p = true;
-                }
-            }
-            Ok(UpdateOutcome::Gated { nis }) => {
-                o.gated_nis = Some(nis as f32);
-                t.gated = t.gated.saturating_add(1);
-            }
-            Err(_) => {}
+        let nis = nu * nu / state.innovation_variance(&row, s * s);
+        if nis <= gate && batch.add(&row, nu, s * s).is_ok() {
+            o.rate_innovation_mps = Some(nu as f32);
+            t.rates = t.rates.saturating_add(1);
         }
-        if let (true, Some(rate)) = (o.used, c.range_rate_mps) {
-            let nu = rate - predicted_rate(state, c, u);
-            let s = doppler_sigma(cfg, c);
-            let row = MeasurementRow::range_rate(u);
-            let result = state.update(&row, nu, s * s, gate);
-            if let Ok(r) = result {
-                t.rate_nis += r.nis();
-                t.rate_tested = t.rate_tested.saturating_add(1);
+    }
+    if held {
+        t.motion = rates
+            .shows_motion()
+            .or_else(|| ranges.shows_motion())
+            .unwrap_or(false);
+        if t.motion {
+            let _ = state.free_velocity(RELEASE_SIGMA_MPS * RELEASE_SIGMA_MPS);
+        } else {
+            zero_velocity(&mut batch, state);
+        }
+    }
+    t.tested = u8::try_from(batch.count()).unwrap_or(u8::MAX);
+    match state.apply(&batch) {
+        Ok(nis) => t.nis_sum = nis,
+        Err(_) => {
+            for o in out.iter_mut() {
+                o.used = false;
+                o.rate_innovation_mps = None;
             }
-            if let Ok(UpdateOutcome::Applied { .. }) = result {
-                o.rate_innovation_mps = Some(nu as f32);
-                t.rates = t.rates.saturating_add(1);
-            }
+            t.applied = 0;
+            t.rates = 0;
         }
     }
     t
 }
 
-/// Adds a line of sight to the unweighted normal matrix (position and the system's clock).
-fn add_geometry(g: &mut Mat6, u: [f64; 3], sys: usize) {
-    let idx = [0, 1, 2, sys.saturating_add(3)];
-    let val = [-u[0], -u[1], -u[2], 1.0];
-    for (&i, &a) in idx.iter().zip(&val) {
-        for (&j, &b) in idx.iter().zip(&val) {
-            add(g, i, j, a * b);
-        }
-    }
-}
-
 /// Zero-velocity measurements on the three axes while held.
-fn zero_velocity(state: &mut FilterState, gate: f64) {
+fn zero_velocity(batch: &mut Batch, state: &FilterState) {
     for k in [VEL_X, VEL_Y, VEL_Z] {
         let v = state.x().get(k).copied().unwrap_or(0.0);
         let row = MeasurementRow::single(k, 1.0);
-        let var = ZERO_VELOCITY_SIGMA_MPS * ZERO_VELOCITY_SIGMA_MPS;
-        let _ = state.update(&row, -v, var, gate);
+        let _ = batch.add(&row, -v, ZERO_VELOCITY_SIGMA_MPS * ZERO_VELOCITY_SIGMA_MPS);
     }
 }
 

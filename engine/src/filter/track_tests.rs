@@ -26,13 +26,11 @@ fn a_millisecond_step_reseats_the_clock_and_a_small_shift_does_not() {
         isb_var_m2: 1.0,
     };
     let mut s = FilterState::from_fix(&prior).unwrap();
-    assert!(!reseat_on_clock_event(&mut s, &[10.0, 11.0, 9.0, 10.5]));
+    assert_eq!(reseat_on_clock_event(&mut s, &[10.0, 11.0, 9.0, 10.5]), 0.0);
     assert_eq!(s.clock().0, 100.0);
     let ms = 299_792.458;
-    assert!(reseat_on_clock_event(
-        &mut s,
-        &[ms + 1.0, ms - 2.0, ms, ms + 40.0, 3.0]
-    ));
+    let shift = reseat_on_clock_event(&mut s, &[ms + 1.0, ms - 2.0, ms, ms + 40.0, 3.0]);
+    assert_eq!(shift, ms);
     assert!((s.clock().0 - (100.0 + ms)).abs() < 2.0);
     assert_eq!(s.position(), prior.position_m);
 }

@@ -47,6 +47,11 @@ pub const MAX_VARIANCE_RATIO: f64 = 1e12;
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct MeasurementRow {
     h: StateVector,
+    /// Indices of the non-zero coefficients, the first `nonzero_len` of them: the batch
+    /// update and the innovation variance visit only these (a GNSS row has four or five),
+    /// which saves comparing every coefficient with zero in software floating point.
+    nonzero: [u8; STATE_LEN],
+    nonzero_len: u8,
 }
 
 /// The inter-system bias state a satellite of `system` adds to its pseudorange.
@@ -61,8 +66,33 @@ fn isb_state(system: System) -> Option<usize> {
 impl MeasurementRow {
     /// Any row, in the state layout. The update refuses a row with a coefficient that is not
     /// finite or above [`MAX_ROW_COEFFICIENT`] in magnitude.
-    pub const fn new(h: StateVector) -> Self {
-        MeasurementRow { h }
+    pub fn new(h: StateVector) -> Self {
+        Self::from_coefficients(h)
+    }
+
+    fn from_coefficients(h: StateVector) -> Self {
+        let mut row = MeasurementRow {
+            h,
+            nonzero: [0; STATE_LEN],
+            nonzero_len: 0,
+        };
+        for (i, v) in h.iter().enumerate() {
+            if *v != 0.0 {
+                if let Some(slot) = row.nonzero.get_mut(usize::from(row.nonzero_len)) {
+                    *slot = i as u8;
+                    row.nonzero_len = row.nonzero_len.saturating_add(1);
+                }
+            }
+        }
+        row
+    }
+
+    /// The non-zero coefficients with their state indices.
+    pub fn nonzero(&self) -> impl Iterator<Item = (usize, f64)> + '_ {
+        self.nonzero
+            .iter()
+            .take(usize::from(self.nonzero_len))
+            .map(|&i| (usize::from(i), self.h.get(usize::from(i)).copied().unwrap_or(0.0)))
     }
 
     /// A pseudorange `ρ = |s − p| + b + isb(system)`: `−e` on position, 1 on the clock bias
@@ -75,7 +105,7 @@ impl MeasurementRow {
         if let Some(k) = isb_state(system).and_then(|k| h.get_mut(k)) {
             *k = 1.0;
         }
-        MeasurementRow { h }
+        Self::from_coefficients(h)
     }
 
     /// A range rate from Doppler, `ρ̇ = −e·v + ḃ` (satellite velocity and clock rate are the
@@ -85,7 +115,7 @@ impl MeasurementRow {
         let [ex, ey, ez] = line_of_sight;
         // Layout: position, velocity, clock bias, drift, the two inter-system biases.
         let h = [0.0, 0.0, 0.0, -ex, -ey, -ez, 0.0, 1.0, 0.0, 0.0];
-        MeasurementRow { h }
+        Self::from_coefficients(h)
     }
 
     /// A direct measurement of one state (for instance a zero-velocity pseudo-measurement on
@@ -95,7 +125,7 @@ impl MeasurementRow {
         if let Some(v) = h.get_mut(index) {
             *v = coefficient;
         }
-        MeasurementRow { h }
+        Self::from_coefficients(h)
     }
 
     /// The coefficients.
@@ -163,6 +193,9 @@ pub enum UpdateError {
     /// The updated state or a variance would leave the state's bounds, or a variance would
     /// fall to zero or below through rounding.
     OutOfRange,
+    /// A batch update's factorisation failed: f64 could not keep the information matrix
+    /// positive definite.
+    NotPositiveDefinite,
 }
 
 impl fmt::Display for UpdateError {
@@ -175,6 +208,7 @@ impl fmt::Display for UpdateError {
             UpdateError::InnovationVariance => "innovation variance not finite or not positive",
             UpdateError::TooPrecise => "measurement over 1e12 times more precise than the state",
             UpdateError::OutOfRange => "updated state or covariance out of range",
+            UpdateError::NotPositiveDefinite => "information matrix not positive definite",
         })
     }
 }
@@ -191,8 +225,8 @@ impl FilterState {
     /// `variance`, without updating (for tests of several innovations at once).
     pub fn innovation_variance(&self, row: &MeasurementRow, variance: f64) -> f64 {
         let mut s = variance;
-        for (i, hi) in row.h.iter().enumerate().filter(|(_, h)| **h != 0.0) {
-            for (j, hj) in row.h.iter().enumerate().filter(|(_, h)| **h != 0.0) {
+        for (i, hi) in row.nonzero() {
+            for (j, hj) in row.nonzero() {
                 s += hi * at(&self.p, i, j) * hj;
             }
         }

@@ -107,6 +107,9 @@ pub(crate) struct Setup<'a> {
 }
 
 /// Iterates the weighted least squares. `out` receives one [`Outcome`] per candidate.
+// Not inlined: its frame (the normal matrices) is off the stack while the velocity is
+// solved and while the filter runs.
+#[inline(never)]
 pub(crate) fn solve(
     cands: &[Candidate],
     setup: &Setup<'_>,

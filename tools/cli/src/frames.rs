@@ -13,7 +13,7 @@ use trackfix_harness::scenario::generate::{Generator, SCENARIO_IONO};
 use trackfix_harness::scenario::parse;
 
 /// Ephemeris slots of the firmware example's engine.
-pub const FW_EPH: usize = 24;
+pub const FW_EPH: usize = 16;
 
 fn push_frame(
     out: &mut Vec<u8>,
