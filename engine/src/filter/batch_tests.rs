@@ -54,8 +54,12 @@ fn one_batch_equals_sequential_updates() {
     for k in 0..12 {
         let sys = [System::Gps, System::Galileo, System::Beidou][k % 3];
         let u = rng.unit();
-        rows.push((MeasurementRow::pseudorange(u, sys), 3.0 * rng.next(), 4.0 + rng.next()))
-            .unwrap();
+        rows.push((
+            MeasurementRow::pseudorange(u, sys),
+            3.0 * rng.next(),
+            4.0 + rng.next(),
+        ))
+        .unwrap();
         rows.push((MeasurementRow::range_rate(u), 0.2 * rng.next(), 0.01))
             .unwrap();
     }
@@ -75,7 +79,10 @@ fn one_batch_equals_sequential_updates() {
     let nis = b.apply(&batch).unwrap();
     for i in 0..STATE_LEN {
         let (xb, xs) = (b.x()[i], seq.x()[i]);
-        assert!((xb - xs).abs() <= 1e-9 * xs.abs().max(1.0), "x[{i}] {xb} {xs}");
+        assert!(
+            (xb - xs).abs() <= 1e-9 * xs.abs().max(1.0),
+            "x[{i}] {xb} {xs}"
+        );
         for j in 0..STATE_LEN {
             let (pb, ps) = (b.p()[i][j], seq.p()[i][j]);
             let scale = (seq.p()[i][i] * seq.p()[j][j]).sqrt();
@@ -94,9 +101,15 @@ fn an_empty_batch_changes_nothing_and_bad_input_is_refused() {
     assert_eq!(s, before);
     let mut b = Batch::new();
     let row = MeasurementRow::range_rate([0.0, 0.0, 1.0]);
-    assert_eq!(b.add(&row, f64::NAN, 1.0), Err(UpdateError::InvalidInnovation));
+    assert_eq!(
+        b.add(&row, f64::NAN, 1.0),
+        Err(UpdateError::InvalidInnovation)
+    );
     assert_eq!(b.add(&row, 1.0, 0.0), Err(UpdateError::InvalidVariance));
-    assert_eq!(b.add(&row, 1.0, f64::INFINITY), Err(UpdateError::InvalidVariance));
+    assert_eq!(
+        b.add(&row, 1.0, f64::INFINITY),
+        Err(UpdateError::InvalidVariance)
+    );
     let zero = MeasurementRow::new([0.0; STATE_LEN]);
     assert_eq!(b.add(&zero, 1.0, 1.0), Err(UpdateError::InvalidRow));
     assert_eq!(b.count(), 0);

@@ -192,11 +192,25 @@ impl FilterState {
             iv,
             iv,
         ];
-        let mut p = [[0.0; STATE_LEN]; STATE_LEN];
-        for (i, v) in var.into_iter().enumerate() {
-            put(&mut p, i, i, v);
+        // A diagonal with positive variances is positive definite: checking the values is
+        // enough (no factorisation, which keeps a restart cheap on the target).
+        if !x.iter().chain(&var).all(|v| v.is_finite()) {
+            return Err(StateError::NonFinite);
         }
-        Self::from_parts(x, p)
+        if !x.iter().all(|v| v.abs() <= MAX_ABS_STATE) {
+            return Err(StateError::StateOutOfRange);
+        }
+        if !var.iter().all(|&v| v > 0.0 && v <= MAX_VARIANCE) {
+            return Err(StateError::VarianceOutOfRange);
+        }
+        let mut state = FilterState {
+            x,
+            p: [[0.0; STATE_LEN]; STATE_LEN],
+        };
+        for (i, v) in var.into_iter().enumerate() {
+            put(&mut state.p, i, i, v);
+        }
+        Ok(state)
     }
 
     /// A state from a full vector and covariance (for instance a least-squares fix with its

@@ -156,7 +156,8 @@ pub(crate) fn step(
         tr.updated = ctx.time;
         tr.still = tr.still.after(f, ctx.time, speed, sigma);
     }
-    tr.window.push(tally.nis_sum as f32, tally.tested, tally.gated);
+    tr.window
+        .push(tally.nis_sum as f32, tally.tested, tally.gated);
     if tr.window.diverged() {
         *tracked = None;
         return Step::Lost(FilterEvent::RestartedDiverged);
@@ -253,12 +254,18 @@ fn median(values: &[f64]) -> Option<f64> {
 /// Re-seats the clock bias when the median innovation exceeds what the prediction allows
 /// (see the module documentation). Returns the shift of the bias, m (0 when none).
 fn reseat_on_clock_event(state: &mut FilterState, innovations: &[f64]) -> f64 {
+    let p = state.position_cov();
+    let spread = state.clock_cov()[0][0] + p[0][0] + p[1][1] + p[2][2];
+    let limit = 5.0 * libm::sqrt(spread) + 30.0;
+    // The median cannot exceed the limit unless some innovation does: most epochs stop here
+    // without the O(n²) median.
+    if innovations.iter().all(|v| v.abs() <= limit) {
+        return 0.0;
+    }
     let Some(m) = median(innovations) else {
         return 0.0;
     };
-    let p = state.position_cov();
-    let spread = state.clock_cov()[0][0] + p[0][0] + p[1][1] + p[2][2];
-    if m.abs() <= 5.0 * libm::sqrt(spread) + 30.0 {
+    if m.abs() <= limit {
         return 0.0;
     }
     let (b, drift) = state.clock();
@@ -309,8 +316,12 @@ impl Spread {
 
     /// Whether the spread exceeds the 0.999 quantile of χ²(n − 1); `None` below two values.
     fn shows_motion(&self) -> Option<bool> {
-        (self.n >= 2 && self.w > 0.0)
-            .then(|| shows_motion(self.wn2 - self.wn * self.wn / self.w, self.n.saturating_sub(1)))
+        (self.n >= 2 && self.w > 0.0).then(|| {
+            shows_motion(
+                self.wn2 - self.wn * self.wn / self.w,
+                self.n.saturating_sub(1),
+            )
+        })
     }
 }
 

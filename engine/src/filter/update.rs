@@ -92,7 +92,12 @@ impl MeasurementRow {
         self.nonzero
             .iter()
             .take(usize::from(self.nonzero_len))
-            .map(|&i| (usize::from(i), self.h.get(usize::from(i)).copied().unwrap_or(0.0)))
+            .map(|&i| {
+                (
+                    usize::from(i),
+                    self.h.get(usize::from(i)).copied().unwrap_or(0.0),
+                )
+            })
     }
 
     /// A pseudorange `ρ = |s − p| + b + isb(system)`: `−e` on position, 1 on the clock bias
@@ -224,13 +229,17 @@ impl FilterState {
     /// The innovation variance `S = hᵀPh + R` of a measurement with row `row` and variance
     /// `variance`, without updating (for tests of several innovations at once).
     pub fn innovation_variance(&self, row: &MeasurementRow, variance: f64) -> f64 {
-        let mut s = variance;
-        for (i, hi) in row.nonzero() {
-            for (j, hj) in row.nonzero() {
-                s += hi * at(&self.p, i, j) * hj;
+        // Σ_i h_i (h_i P_ii / 2 + Σ_{j>i} P_ij h_j), doubled: the symmetric form visits each
+        // pair once.
+        let mut s = 0.0;
+        for (a, (i, hi)) in row.nonzero().enumerate() {
+            let mut inner = 0.5 * hi * at(&self.p, i, i);
+            for (j, hj) in row.nonzero().skip(a.saturating_add(1)) {
+                inner += at(&self.p, i, j) * hj;
             }
+            s += hi * inner;
         }
-        s
+        2.0 * s + variance
     }
 
     /// Applies one scalar measurement: row `h`, innovation `ν = z − h(x)`, measurement

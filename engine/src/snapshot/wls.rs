@@ -227,7 +227,7 @@ pub(crate) fn solve(
                 add(&mut geometry, d.0, d.1, 1.0);
             }
         }
-        let chol = Cholesky6::new(&normal).ok_or(NoFixReason::SingularGeometry)?;
+        let chol = Cholesky6::factor(normal).ok_or(NoFixReason::SingularGeometry)?;
         let d = chol.solve(&rhs);
         if d.iter().any(|v| !v.is_finite()) {
             return Err(NoFixReason::SingularGeometry);
@@ -239,6 +239,7 @@ pub(crate) fn solve(
         // about s²/(2ρ) with ρ ≥ 19,000 km: converged when that is below the tolerance.
         if corrections_on && step * step / (2.0 * MIN_RANGE_M) < cfg.snapshot.convergence_m {
             let dpos = [d[0], d[1], d[2]];
+            let normal_inv = chol.inverse();
             return finish(
                 &FinishInput {
                     pos,
@@ -248,8 +249,8 @@ pub(crate) fn solve(
                     used,
                     iterations,
                     iono_used: site.as_ref().is_some_and(Site::iono_applied),
-                    normal_inv: chol.inverse(),
-                    geometry,
+                    normal_inv: &normal_inv,
+                    geometry: &geometry,
                     dpos,
                     dclk: [d[3], d[4], d[5]],
                     cfg,
@@ -275,8 +276,8 @@ struct FinishInput<'a> {
     used: u8,
     iterations: u8,
     iono_used: bool,
-    normal_inv: Mat6,
-    geometry: Mat6,
+    normal_inv: &'a Mat6,
+    geometry: &'a Mat6,
     dpos: [f64; 3],
     dclk: [f64; 3],
     cfg: &'a Config,
@@ -304,8 +305,8 @@ fn finish(
             sse += z * z;
         }
     }
-    let cov = enu_block(&frame, &f.normal_inv);
-    let dop = dop(&f.geometry, &f.present, &frame).ok_or(NoFixReason::SingularGeometry)?;
+    let cov = enu_block(&frame, f.normal_inv);
+    let dop = dop(f.geometry, &f.present, &frame).ok_or(NoFixReason::SingularGeometry)?;
     let first = f.present.iter().position(|p| *p).unwrap_or(0);
     let mut system_clock_m = [None; 3];
     for ((s, p), c) in system_clock_m.iter_mut().zip(f.present).zip(f.clk) {
