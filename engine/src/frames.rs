@@ -14,6 +14,9 @@ pub const WGS84_F: f64 = 1.0 / WGS84_INV_F;
 pub const WGS84_B: f64 = WGS84_A * (1.0 - WGS84_F);
 /// WGS-84 first eccentricity squared.
 pub const WGS84_E2: f64 = WGS84_F * (2.0 - WGS84_F);
+/// Bound on `d²·|sin φ|/cos φ` for which [`Geodetic::nudged`] takes its first-order step,
+/// m² (6,400 km × 1 mm).
+pub const NUDGE_LIMIT_M2: f64 = 6.4e3;
 /// WGS-84 second eccentricity squared.
 const WGS84_EP2: f64 = WGS84_E2 / (1.0 - WGS84_E2);
 
@@ -50,6 +53,33 @@ impl Geodetic {
             (n + self.height_m) * cl * so,
             (n * (1.0 - WGS84_E2) + self.height_m) * sl,
         ]
+    }
+
+    /// The geodetic position of `p`, an ECEF point near `origin` (whose geodetic position
+    /// is `self` and local frame `frame`), by one first-order step: `Δφ = Δn/(M + h)`,
+    /// `Δλ = Δe/((N + h) cos φ)`, `Δh = Δu`. Its error grows as `d²·tan φ/R` for a move of
+    /// `d`: the step is taken only where that stays under about 1 mm
+    /// (`d² |sin φ| ≤ NUDGE_LIMIT_M2 · cos φ`, about 80 m at 45°; frames_tests.rs), else the
+    /// exact conversion. Saves the iterative conversion's trigonometry where a filter moves
+    /// its position by metres per epoch.
+    pub fn nudged(&self, origin: [f64; 3], frame: &LocalFrame, p: [f64; 3]) -> Geodetic {
+        let d = sub(p, origin);
+        let [de, dn, du] = frame.rotate(d);
+        let [_, _, [ux, uy, uz]] = frame.axes;
+        let (sl, cl) = (uz, sqrt(ux * ux + uy * uy));
+        let w2 = 1.0 - WGS84_E2 * sl * sl;
+        let d2 = d[0] * d[0] + d[1] * d[1] + d[2] * d[2];
+        if d2 * sl.abs() > NUDGE_LIMIT_M2 * cl || w2 <= 0.0 {
+            return Geodetic::from_ecef(p);
+        }
+        let w = sqrt(w2);
+        let n = WGS84_A / w;
+        let m = n * (1.0 - WGS84_E2) / w2;
+        Geodetic {
+            lat_rad: self.lat_rad + dn / (m + self.height_m),
+            lon_rad: self.lon_rad + de / ((n + self.height_m) * cl),
+            height_m: self.height_m + du,
+        }
     }
 
     /// The geodetic coordinates of an ECEF position.

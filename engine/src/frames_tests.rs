@@ -80,3 +80,24 @@ fn azimuth_elevation_of_zenith_and_north() {
     let (az, _) = f.az_el(north);
     assert!(az.to_degrees().abs() < 1e-6 || (az.to_degrees() - 360.0).abs() < 1e-6);
 }
+
+// The first-order step (or, beyond its limit, the exact conversion) stays within 2 mm of the
+// exact conversion for moves of metres to 100 m, at mid latitudes and near a pole.
+#[test]
+fn a_nudged_position_matches_the_exact_conversion() {
+    for (lat, lon, h) in [(47.6, 8.9, 412.0), (-33.9, 151.2, 40.0), (89.0, 20.0, 0.0)] {
+        let g = Geodetic::from_degrees(lat, lon, h);
+        let origin = g.to_ecef();
+        let frame = LocalFrame::new(origin, &g);
+        for d in [[60.0, -70.0, 30.0], [1.0, 2.0, -3.0], [-57.0, 0.0, 57.0]] {
+            let p = [origin[0] + d[0], origin[1] + d[1], origin[2] + d[2]];
+            let (a, b) = (g.nudged(origin, &frame, p), Geodetic::from_ecef(p));
+            let back = a.to_ecef();
+            let miss =
+                ((back[0] - p[0]).powi(2) + (back[1] - p[1]).powi(2) + (back[2] - p[2]).powi(2))
+                    .sqrt();
+            assert!(miss < 2e-3, "{lat} {d:?}: {miss} m");
+            assert!((a.height_m - b.height_m).abs() < 2e-3);
+        }
+    }
+}

@@ -30,9 +30,9 @@ const N: usize = 12;
 /// Observations per epoch.
 #[cfg(feature = "n24")]
 const N: usize = 24;
-/// Ephemeris slots: the satellites in view of two or three systems (about 8–12 each), with
-/// margin; the store replaces the record with the oldest toe when full. 24 rather than 32
-/// since the Doppler velocity took 1.6 KiB more stack (see docs/firmware.md).
+/// Ephemeris slots: four more than the 12 observations an epoch carries; the store replaces
+/// the record with the oldest toe when full. 16 rather than 24 since the navigation filter
+/// took 1 KiB of static RAM and 1.6 KiB more stack (see docs/firmware.md).
 const EPH: usize = 16;
 /// Frame buffer for epochs of `N` observations.
 const B: usize = buffer_for(N);

@@ -33,6 +33,14 @@ pub struct Threshold {
     pub ttff95_s: Option<f64>,
     /// 3-D velocity error RMS against the truth velocity, at most, m/s.
     pub vel_rms_mps: Option<f64>,
+    /// Held position: 95 % of its horizontal distance from its mean, at most, m.
+    pub hold_spread95_m: Option<f64>,
+    /// Held position: drift over a parking, at most, m.
+    pub hold_drift_m: Option<f64>,
+    /// Position change at a receiver clock step, at most, m.
+    pub clock_step_m: Option<f64>,
+    /// Horizontal error at the first updated fix after an outage, at most, m.
+    pub post_outage_h_m: Option<f64>,
 }
 
 /// A synthetic row.
@@ -48,8 +56,10 @@ pub struct ScenarioRow {
     /// Systems the engine uses (default: all it is given).
     #[serde(default)]
     pub engine_systems: Option<Vec<crate::scenario::spec::SystemName>>,
-    /// Limits.
+    /// Limits of the snapshot-only run.
     pub threshold: Threshold,
+    /// Limits of the default (filtered) run.
+    pub filtered: Threshold,
 }
 
 /// A recorded row.
@@ -68,8 +78,10 @@ pub struct DatasetRow {
     pub marker: Option<[f64; 3]>,
     /// Systems the engine uses.
     pub systems: Vec<crate::scenario::spec::SystemName>,
-    /// Limits.
+    /// Limits of the snapshot-only run.
     pub threshold: Threshold,
+    /// Limits of the default (filtered) run.
+    pub filtered: Threshold,
 }
 
 /// The whole manifest.
@@ -84,17 +96,23 @@ pub struct Manifest {
     pub dataset: Vec<DatasetRow>,
 }
 
-/// One row's outcome.
+/// One row's outcome, run twice: with the default configuration (the navigation filter)
+/// and snapshot-only.
 #[derive(Clone, Debug)]
 pub struct RowResult {
     /// Row name.
     pub name: String,
     /// "synthetic" or "recorded".
     pub kind: &'static str,
-    /// The summary, or why the row could not run (a missing data folder is `Skipped`).
+    /// The default run's summary, or why the row could not run (a missing data folder is
+    /// `Skipped`).
     pub outcome: RowOutcome,
-    /// Limits.
+    /// Limits of the default run.
     pub threshold: Threshold,
+    /// The snapshot-only run.
+    pub snapshot: RowOutcome,
+    /// Limits of the snapshot-only run.
+    pub snapshot_threshold: Threshold,
 }
 
 /// Whether a row ran.
@@ -132,13 +150,32 @@ pub fn config_for(systems: &[crate::scenario::spec::SystemName]) -> Config {
     Config::default().with_systems(&systems)
 }
 
+/// The same without the navigation filter: every fix a snapshot.
+pub fn snapshot_config(systems: &[crate::scenario::spec::SystemName]) -> Config {
+    let mut c = config_for(systems);
+    c.filter.mode = trackfix_engine::config::FilterMode::Snapshot;
+    c
+}
+
 impl ScenarioRow {
     /// Runs the scenario through the engine.
     ///
     /// # Errors
     /// A message naming the scenario field that cannot be used.
     pub fn records(&self) -> Result<Vec<EpochRecord>, String> {
-        let cfg = config_for(self.engine_systems.as_deref().unwrap_or(&self.spec.systems));
+        self.records_with(config_for(self.systems()))
+    }
+
+    /// The systems the engine uses.
+    pub fn systems(&self) -> &[crate::scenario::spec::SystemName] {
+        self.engine_systems.as_deref().unwrap_or(&self.spec.systems)
+    }
+
+    /// Runs the scenario through the engine configured with `cfg`.
+    ///
+    /// # Errors
+    /// A message naming the scenario field that cannot be used.
+    pub fn records_with(&self, cfg: Config) -> Result<Vec<EpochRecord>, String> {
         scenario::run(&self.spec, cfg).map_err(|e| format!("scenario {}: {e}", self.name))
     }
 }
@@ -149,6 +186,14 @@ impl DatasetRow {
     /// # Errors
     /// A digest mismatch or the first reading error.
     pub fn records(&self, dir: &Path) -> Result<Vec<EpochRecord>, String> {
+        self.records_with(dir, config_for(&self.systems))
+    }
+
+    /// As [`DatasetRow::records`], with the engine configured by `cfg`.
+    ///
+    /// # Errors
+    /// A digest mismatch or the first reading error.
+    pub fn records_with(&self, dir: &Path, cfg: Config) -> Result<Vec<EpochRecord>, String> {
         std::iter::once(&self.obs)
             .chain(self.nav.iter())
             .try_for_each(|f| verify(dir, f))?;
@@ -157,7 +202,14 @@ impl DatasetRow {
             nav: self.nav.iter().map(|n| dir.join(n)).collect(),
             truth: self.marker.map(Truth::Marker),
         };
-        replay(&ds, config_for(&self.systems)).map_err(|e| e.to_string())
+        replay(&ds, cfg).map_err(|e| e.to_string())
+    }
+}
+
+fn summarise(r: Result<Vec<EpochRecord>, String>) -> RowOutcome {
+    match r {
+        Ok(r) => RowOutcome::Ran(Box::new(Summary::of(&r))),
+        Err(e) => RowOutcome::Error(e),
     }
 }
 
@@ -165,32 +217,31 @@ fn run_scenario(row: &ScenarioRow) -> RowResult {
     RowResult {
         name: row.name.clone(),
         kind: "synthetic",
-        outcome: match row.records() {
-            Ok(r) => RowOutcome::Ran(Box::new(Summary::of(&r))),
-            Err(e) => RowOutcome::Error(e),
-        },
-        threshold: row.threshold,
+        outcome: summarise(row.records()),
+        threshold: row.filtered,
+        snapshot: summarise(row.records_with(snapshot_config(row.systems()))),
+        snapshot_threshold: row.threshold,
     }
 }
 
 fn run_dataset(row: &DatasetRow) -> RowResult {
+    let run = |cfg: Config| match data_dir() {
+        None if required() => RowOutcome::Error(format!(
+            "recorded data folder not found and {REQUIRE_VAR} is set"
+        )),
+        None => {
+            report_skip(&format!("manifest row {}", row.name));
+            RowOutcome::Skipped
+        }
+        Some(dir) => summarise(row.records_with(&dir, cfg)),
+    };
     RowResult {
         name: row.name.clone(),
         kind: "recorded",
-        outcome: match data_dir() {
-            None if required() => RowOutcome::Error(format!(
-                "recorded data folder not found and {REQUIRE_VAR} is set"
-            )),
-            None => {
-                report_skip(&format!("manifest row {}", row.name));
-                RowOutcome::Skipped
-            }
-            Some(dir) => match row.records(&dir) {
-                Ok(r) => RowOutcome::Ran(Box::new(Summary::of(&r))),
-                Err(e) => RowOutcome::Error(e),
-            },
-        },
-        threshold: row.threshold,
+        outcome: run(config_for(&row.systems)),
+        threshold: row.filtered,
+        snapshot: run(snapshot_config(&row.systems)),
+        snapshot_threshold: row.threshold,
     }
 }
 
@@ -217,68 +268,114 @@ fn cell(measured: f64, limit: Option<f64>, at_least: bool, decimals: usize) -> (
     }
 }
 
-/// The measured-versus-threshold table (Markdown), and whether every row passed.
+/// The measured-versus-threshold tables (Markdown): accuracy of both runs of every row, then
+/// the filter's own figures; and whether every row passed.
 pub fn table(results: &[RowResult]) -> (String, bool) {
     let mut s = String::new();
     let _ = writeln!(
         s,
-        "| row | kind | epochs | availability % | H 50 % m | H 95 % m | V 50 % m | V 95 % m | TTFF 95 % s | velocity RMS m/s |"
+        "| row | run | epochs | availability % | H 50 % m | H 95 % m | V 50 % m | V 95 % m | TTFF 95 % s | velocity RMS m/s |"
     );
     let _ = writeln!(s, "|---|---|---|---|---|---|---|---|---|---|");
     let mut all_ok = true;
     for r in results {
-        match &r.outcome {
-            RowOutcome::Skipped => {
-                let _ = writeln!(
-                    s,
-                    "| {} | {} | skipped: no data folder | | | | | | | |",
-                    r.name, r.kind
-                );
-            }
-            RowOutcome::Error(e) => {
-                all_ok = false;
-                let _ = writeln!(
-                    s,
-                    "| {} | {} | **ERROR** {e} | | | | | | | |",
-                    r.name, r.kind
-                );
-            }
-            RowOutcome::Ran(m) => {
-                let t = &r.threshold;
-                // No truth (or no fix): no error statistics to show.
-                let or_nan = |count: usize, v: f64| if count > 0 { v } else { f64::NAN };
-                let (h, v) = (&m.horizontal, &m.vertical);
-                let cells = [
-                    cell(m.availability_pct, t.availability_min_pct, true, 1),
-                    cell(or_nan(h.count, h.p50), t.h50_m, false, 2),
-                    cell(or_nan(h.count, h.p95), t.h95_m, false, 2),
-                    cell(or_nan(v.count, v.p50), t.v50_m, false, 2),
-                    cell(or_nan(v.count, v.p95), t.v95_m, false, 2),
-                    cell(or_nan(m.ttff_s.count, m.ttff_s.p95), t.ttff95_s, false, 1),
-                    cell(
-                        or_nan(m.velocity_error.count, m.velocity_error.rms),
-                        t.vel_rms_mps,
-                        false,
-                        3,
-                    ),
-                ];
-                all_ok &= cells.iter().all(|c| c.1);
-                let _ = writeln!(
-                    s,
-                    "| {} | {} | {} | {} |",
-                    r.name,
-                    r.kind,
-                    m.epochs,
-                    cells
-                        .iter()
-                        .map(|c| c.0.as_str())
-                        .collect::<Vec<_>>()
-                        .join(" | ")
-                );
-            }
+        for (run, outcome, t) in [
+            ("filtered", &r.outcome, &r.threshold),
+            ("snapshot", &r.snapshot, &r.snapshot_threshold),
+        ] {
+            all_ok &= accuracy_line(&mut s, &r.name, run, r.kind, outcome, t);
+        }
+    }
+    let _ = writeln!(
+        s,
+        "\nThe filtered runs: share of epochs per fix kind, and the filter's own figures (see below).\n"
+    );
+    let _ = writeln!(
+        s,
+        "| row | snapshot / filtered / predicted / held / none % | held spread 95 % m | held drift m | position change at a clock step m | H error after an outage m | H error / σ_H, 95 % |"
+    );
+    let _ = writeln!(s, "|---|---|---|---|---|---|---|");
+    for r in results {
+        if let RowOutcome::Ran(m) = &r.outcome {
+            let f = &m.filter;
+            let t = &r.threshold;
+            let opt = |v: Option<f64>| v.unwrap_or(f64::NAN);
+            let cells = [
+                cell(opt(f.hold_spread95_m), t.hold_spread95_m, false, 2),
+                cell(opt(f.hold_drift_m), t.hold_drift_m, false, 2),
+                cell(opt(f.clock_step_m), t.clock_step_m, false, 2),
+                cell(opt(f.post_outage_h_m), t.post_outage_h_m, false, 2),
+                cell(opt(f.h_over_sigma95), None, false, 2),
+            ];
+            all_ok &= cells.iter().all(|c| c.1);
+            let shares = f.shares_pct().map(|p| format!("{p:.1}")).join(" / ");
+            let _ = writeln!(
+                s,
+                "| {} | {shares} | {} |",
+                r.name,
+                cells
+                    .iter()
+                    .map(|c| c.0.as_str())
+                    .collect::<Vec<_>>()
+                    .join(" | ")
+            );
         }
     }
     (s, all_ok)
+}
+
+/// One run's accuracy line; whether it passed.
+fn accuracy_line(
+    s: &mut String,
+    name: &str,
+    run: &str,
+    kind: &str,
+    outcome: &RowOutcome,
+    t: &Threshold,
+) -> bool {
+    match outcome {
+        RowOutcome::Skipped => {
+            let _ = writeln!(
+                s,
+                "| {name} | {run} | skipped: no data folder ({kind}) | | | | | | | |"
+            );
+            true
+        }
+        RowOutcome::Error(e) => {
+            let _ = writeln!(s, "| {name} | {run} | **ERROR** {e} | | | | | | | |");
+            false
+        }
+        RowOutcome::Ran(m) => {
+            // No truth (or no fix): no error statistics to show.
+            let or_nan = |count: usize, v: f64| if count > 0 { v } else { f64::NAN };
+            let (h, v) = (&m.horizontal, &m.vertical);
+            let cells = [
+                cell(m.availability_pct, t.availability_min_pct, true, 1),
+                cell(or_nan(h.count, h.p50), t.h50_m, false, 2),
+                cell(or_nan(h.count, h.p95), t.h95_m, false, 2),
+                cell(or_nan(v.count, v.p50), t.v50_m, false, 2),
+                cell(or_nan(v.count, v.p95), t.v95_m, false, 2),
+                cell(or_nan(m.ttff_s.count, m.ttff_s.p95), t.ttff95_s, false, 1),
+                cell(
+                    or_nan(m.velocity_error.count, m.velocity_error.rms),
+                    t.vel_rms_mps,
+                    false,
+                    3,
+                ),
+            ];
+            let _ = writeln!(
+                s,
+                "| {name} | {run} | {} | {} |",
+                m.epochs,
+                cells
+                    .iter()
+                    .map(|c| c.0.as_str())
+                    .collect::<Vec<_>>()
+                    .join(" | ")
+            );
+            cells.iter().all(|c| c.1)
+        }
+    }
 }
 
 /// The accuracy page of docs/: the table between markers, so a test can check it is current.

@@ -2,7 +2,7 @@
 
 use crate::record::EpochRecord;
 use std::collections::BTreeMap;
-use trackfix_engine::{GnssTime, SatId};
+use trackfix_engine::{FilterEvent, FixSource, GnssTime, LocalFrame, SatId};
 
 /// Order statistics of a set of non-negative errors.
 #[derive(Clone, Copy, Debug, PartialEq, Default)]
@@ -83,6 +83,157 @@ pub struct Summary {
     pub residual_rms_by_sat: BTreeMap<SatId, (usize, f64)>,
     /// 3-D velocity error against the truth velocity, m/s, where both are known.
     pub velocity_error: Stats,
+    /// What the navigation filter made of the run.
+    pub filter: FilterFigures,
+}
+
+/// The navigation filter's figures over a run.
+#[derive(Clone, Debug, Default)]
+pub struct FilterFigures {
+    /// Epochs per fix kind: snapshot, filtered, predicted, held, none.
+    pub kinds: [usize; 5],
+    /// Held fixes: the 95th percentile of their horizontal distance from their mean, m.
+    pub hold_spread95_m: Option<f64>,
+    /// Held fixes: horizontal distance between the mean of the first and of the last tenth
+    /// of them, m (the drift of a parked asset's reported position).
+    pub hold_drift_m: Option<f64>,
+    /// Largest 3-D change of the error against the truth (of the position where there is
+    /// no truth) at an epoch where the filter re-seated its clock, m.
+    pub clock_step_m: Option<f64>,
+    /// Largest horizontal error at the first updated fix after an outage of at least
+    /// [`OUTAGE_EPOCHS`] epochs without one (predicted or no fix), m.
+    pub post_outage_h_m: Option<f64>,
+    /// 95th percentile of the horizontal error over the fix's own horizontal σ
+    /// (√(σ_e² + σ_n²)); 1.73 for a circular Gaussian error whose σ is right.
+    pub h_over_sigma95: Option<f64>,
+}
+
+/// Shortest outage for [`FilterFigures::post_outage_h_m`], epochs.
+pub const OUTAGE_EPOCHS: usize = 10;
+
+impl FilterFigures {
+    /// The share of epochs of each kind, %, in the order of `kinds`.
+    pub fn shares_pct(&self) -> [f64; 5] {
+        let n: usize = self.kinds.iter().sum();
+        self.kinds.map(|k| {
+            if n == 0 {
+                0.0
+            } else {
+                100.0 * k as f64 / n as f64
+            }
+        })
+    }
+
+    /// The figures of a run.
+    pub fn of(records: &[EpochRecord]) -> FilterFigures {
+        let mut kinds = [0usize; 5];
+        for r in records {
+            let k = match r.fix.map(|f| f.source) {
+                Some(FixSource::Snapshot) => 0,
+                Some(FixSource::Filtered) => 1,
+                Some(FixSource::Predicted) => 2,
+                Some(FixSource::Held) => 3,
+                _ => 4,
+            };
+            kinds[k] += 1;
+        }
+        // Runs of consecutive held fixes: each is one parking.
+        let mut runs: Vec<Vec<[f64; 3]>> = vec![Vec::new()];
+        for r in records {
+            match r.fix {
+                Some(f) if f.source == FixSource::Held => {
+                    if let Some(last) = runs.last_mut() {
+                        last.push(f.ecef_m);
+                    }
+                }
+                _ => {
+                    if runs.last().is_some_and(|l| !l.is_empty()) {
+                        runs.push(Vec::new());
+                    }
+                }
+            }
+        }
+        let (hold_spread95_m, hold_drift_m) = hold_figures(&runs);
+        let mut clock_steps = Vec::new();
+        for w in records.windows(2) {
+            if w[1].filter_event == FilterEvent::ClockReseated {
+                if let (Some(a), Some(b)) = (w[0].fix, w[1].fix) {
+                    // The error moves only by noise when the truth moves with the fix.
+                    let (pa, pb) = match (a.enu_error_m, b.enu_error_m) {
+                        (Some(ea), Some(eb)) => (ea, eb),
+                        _ => (a.ecef_m, b.ecef_m),
+                    };
+                    let d: f64 = (0..3).map(|i| (pa[i] - pb[i]).powi(2)).sum();
+                    clock_steps.push(d.sqrt());
+                }
+            }
+        }
+        let mut post = Vec::new();
+        let mut gap = 0usize;
+        for r in records {
+            match r.fix {
+                Some(f) if f.source != FixSource::Predicted => {
+                    if gap >= OUTAGE_EPOCHS {
+                        if let Some(e) = f.enu_error_m {
+                            post.push(e[0].hypot(e[1]));
+                        }
+                    }
+                    gap = 0;
+                }
+                _ => gap += 1,
+            }
+        }
+        let ratios: Vec<f64> = records
+            .iter()
+            .filter_map(|r| r.fix)
+            .filter_map(|f| {
+                let e = f.enu_error_m?;
+                let s = f.sigma_enu_m[0].hypot(f.sigma_enu_m[1]);
+                (s > 0.0).then(|| e[0].hypot(e[1]) / s)
+            })
+            .collect();
+        let max = |v: &[f64]| {
+            v.iter()
+                .copied()
+                .fold(None, |m: Option<f64>, x| Some(m.map_or(x, |m| m.max(x))))
+        };
+        FilterFigures {
+            kinds,
+            hold_spread95_m,
+            hold_drift_m,
+            clock_step_m: max(&clock_steps),
+            post_outage_h_m: max(&post),
+            h_over_sigma95: (!ratios.is_empty()).then(|| Stats::of(&ratios).p95),
+        }
+    }
+}
+
+/// Spread (95 %, pooled over the runs) and drift (the largest of the runs) of held
+/// positions (see [`FilterFigures`]); runs of fewer than 20 fixes are left out.
+fn hold_figures(runs: &[Vec<[f64; 3]>]) -> (Option<f64>, Option<f64>) {
+    let mean = |s: &[[f64; 3]]| {
+        let n = s.len() as f64;
+        [
+            s.iter().map(|p| p[0]).sum::<f64>() / n,
+            s.iter().map(|p| p[1]).sum::<f64>() / n,
+        ]
+    };
+    let mut deviations = Vec::new();
+    let mut drift: Option<f64> = None;
+    for run in runs.iter().filter(|r| r.len() >= 20) {
+        let frame = LocalFrame::at_ecef(run[0]);
+        let enu: Vec<[f64; 3]> = run.iter().map(|p| frame.enu(*p)).collect();
+        let m = mean(&enu);
+        deviations.extend(enu.iter().map(|p| (p[0] - m[0]).hypot(p[1] - m[1])));
+        let tenth = enu.len() / 10;
+        let (a, b) = (mean(&enu[..tenth]), mean(&enu[enu.len() - tenth..]));
+        let d = (a[0] - b[0]).hypot(a[1] - b[1]);
+        drift = Some(drift.map_or(d, |x| x.max(d)));
+    }
+    if deviations.is_empty() {
+        return (None, None);
+    }
+    (Some(Stats::of(&deviations).p95), drift)
 }
 
 impl Summary {
@@ -151,6 +302,7 @@ impl Summary {
             wakeups_without_fix: missed,
             residual_rms_by_sat,
             velocity_error: Stats::of(&vel),
+            filter: FilterFigures::of(records),
         }
     }
 }

@@ -2,7 +2,7 @@
 //! rotated to east/north/up, and the DOP of the pseudoranges it applied.
 
 use super::FilterState;
-use crate::frames::{Geodetic, LocalFrame};
+use crate::corrections::site::Site;
 use crate::linalg::add;
 use crate::linalg::Mat6;
 use crate::snapshot::wls::{dop, enu_block, Candidate, Outcome};
@@ -23,6 +23,10 @@ pub(crate) struct Report<'a> {
     pub cands: &'a [Candidate],
     pub out: &'a [Outcome],
     pub iono_applied: bool,
+    /// σ of the signal-in-space range error, m (the reported covariance's floor).
+    pub ure_sigma_m: f64,
+    /// The corrections' site: the predicted position, its geodetic position and frame.
+    pub site: &'a Site<'a>,
 }
 
 /// The fix; `None` only for a position with no geodetic frame (never for a healthy state).
@@ -30,11 +34,13 @@ pub(crate) struct Report<'a> {
 pub(crate) fn report(r: &Report<'_>) -> Option<Fix> {
     let s = r.state;
     let ecef_m = s.position();
-    let geodetic = Geodetic::from_ecef(ecef_m);
+    // The site's frame (at the predicted position, metres away) rotates the covariances:
+    // the axes differ by the angle the move subtends, about 1e-6 rad per 6 m.
+    let frame = r.site.frame;
+    let geodetic = r.site.geo.nudged(frame.origin, &frame, ecef_m);
     if !geodetic.height_m.is_finite() {
         return None;
     }
-    let frame = LocalFrame::new(ecef_m, &geodetic);
     let (b, drift) = s.clock();
     let [isb_e, isb_c] = s.inter_system_biases();
     let v = s.velocity();
@@ -44,6 +50,12 @@ pub(crate) fn report(r: &Report<'_>) -> Option<Fix> {
         add_geometry(&mut geometry, o.row, c.sys);
         if let Some(p) = present.get_mut(c.sys) {
             *p = true;
+        }
+    }
+    // The clocks of absent systems pinned, as the least-squares geometry does.
+    for (k, p) in present.iter().enumerate() {
+        if !p {
+            add(&mut geometry, k.saturating_add(3), k.saturating_add(3), 1.0);
         }
     }
     for i in 0..6 {
@@ -79,7 +91,7 @@ pub(crate) fn report(r: &Report<'_>) -> Option<Fix> {
         geodetic,
         clock_bias_m: system_clock_m.iter().flatten().next().copied().unwrap_or(b),
         system_clock_m,
-        covariance_enu_m2: enu_block(&frame, &s.position_cov()),
+        covariance_enu_m2: with_floor(enu_block(&frame, &s.position_cov()), &dop, r.ure_sigma_m),
         dop,
         used: r.used,
         iterations: 0,
@@ -112,4 +124,19 @@ fn add_geometry(g: &mut Mat6, row: [f64; 3], sys: usize) {
         add(g, i, clock, *a);
     }
     add(g, clock, clock, 1.0);
+}
+
+/// The reported position covariance, scaled up where its trace falls below `σ_URE²·PDOP²`:
+/// the signal-in-space error changes over hours, so averaging epochs cannot take the
+/// position's uncertainty below what one epoch's geometry makes of it, although the filter
+/// (which treats each epoch's errors as independent) would say so after a long hold. The
+/// state keeps its own covariance; only the report is floored.
+fn with_floor(cov: [[f64; 3]; 3], dop: &Dop, ure_sigma_m: f64) -> [[f64; 3]; 3] {
+    let trace = cov[0][0] + cov[1][1] + cov[2][2];
+    let floor = ure_sigma_m * ure_sigma_m * dop.pdop * dop.pdop;
+    if !(trace > 0.0 && floor > trace) {
+        return cov;
+    }
+    let k = floor / trace;
+    cov.map(|row| row.map(|v| v * k))
 }

@@ -180,6 +180,8 @@ pub(crate) fn step(
         cands,
         out,
         iono_applied: site.iono_applied(),
+        ure_sigma_m: f.ure_sigma_m,
+        site: &site,
     });
     match fix {
         Some(fix) if fix_plausible(&fix, ctx.cfg) => Step::Fix(fix, event),

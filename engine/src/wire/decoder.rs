@@ -71,7 +71,14 @@ impl<const B: usize> FrameDecoder<B> {
         // Both bounds clamped so the range is provably inside the array: no panic path.
         let len = self.len.min(B);
         let n = n.min(len);
-        self.buf.copy_within(n..len, 0);
+        // A byte loop rather than `copy_within`: the general memmove it calls costs 1.5 KB of
+        // flash on the target, and a frame is consumed once.
+        for i in 0..len.saturating_sub(n) {
+            let v = self.buf.get(i.saturating_add(n)).copied().unwrap_or(0);
+            if let Some(d) = self.buf.get_mut(i) {
+                *d = v;
+            }
+        }
         self.len = len.saturating_sub(n);
     }
 

@@ -306,7 +306,7 @@ pub fn table(runs: &[Measured]) -> (String, bool) {
     let _ = writeln!(s);
     let _ = writeln!(
         s,
-        "| build | satellites | epochs | satellite states (median) | corrections + WLS + DOP (median of the rest) | full epoch (median) | full epoch (max) |"
+        "| build | satellites | epochs | satellite states (median) | corrections, filter or least squares, DOP (median of the rest) | full epoch (median) | full epoch (max) |"
     );
     let _ = writeln!(s, "|---|---|---|---|---|---|---|");
     for m in runs {
