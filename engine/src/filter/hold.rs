@@ -6,12 +6,15 @@
 //!   [`HELD_PROFILE`] and applies a zero-velocity measurement of σ [`ZERO_VELOCITY_SIGMA_MPS`]
 //!   on each axis, so the position averages the pseudoranges instead of following their
 //!   noise (the "wander" of a parked tracker).
-//! - **Release**: the epoch's sequential range-rate innovations (or, without Doppler, its
-//!   pseudorange innovations, each capped at the gate) exceed the 0.999 quantile of χ² with
-//!   as many degrees of freedom (common practice: a zero-velocity detector tested on its
-//!   innovations; sequential innovations are independent, so their sum is χ²); or the gap since the last epoch exceeds
-//!   [`HOLD_MAX_GAP_S`], since the asset may have been moved while the receiver slept.
-//!   On release the velocity is freed with σ = [`RELEASE_SIGMA_MPS`] per axis.
+//! - **Release**: the spread of the epoch's range-rate innovations, or of its pseudorange
+//!   innovations, about their weighted mean exceeds the 0.999 quantile of χ² with one degree
+//!   of freedom fewer than their count (common practice: a zero-velocity detector tested on
+//!   its innovations; removing the mean removes the receiver clock's common offset). Range
+//!   rates see an asset that moves now; pseudoranges one that was moved while the receiver
+//!   slept, however long (the hold is kept across gaps up to `filter.max_gap_s`). On release
+//!   the velocity is freed with σ = [`RELEASE_SIGMA_MPS`] per axis and each position
+//!   variance grows by `(RELEASE_SIGMA_MPS · Δt)²`, Δt the time since the last epoch (at
+//!   least 1 s).
 
 use super::noise::MotionProfile;
 use super::window::chi2_999;
@@ -29,8 +32,6 @@ pub const ZERO_VELOCITY_SIGMA_MPS: f64 = 0.01;
 /// σ of each velocity axis after a release, m/s (a vehicle pulling away reaches a few m/s in
 /// the seconds before the test sees it).
 pub const RELEASE_SIGMA_MPS: f64 = 5.0;
-/// Longest gap across which a hold is kept, s.
-pub const HOLD_MAX_GAP_S: f64 = 10.0;
 
 /// Where the stationary detector stands.
 #[derive(Clone, Copy, Debug, PartialEq)]

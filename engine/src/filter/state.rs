@@ -388,6 +388,25 @@ impl FilterState {
         Ok(())
     }
 
+    /// Adds `var_m2` to the variance of each position axis (an asset found moving after it
+    /// was held: it may be that far from where it was). A positive diagonal added to a
+    /// positive-definite matrix leaves it positive definite.
+    ///
+    /// # Errors
+    /// [`StateError::VarianceOutOfRange`] for an addition that is not finite and positive or
+    /// would take a variance beyond [`MAX_VARIANCE`]; the state is left unchanged.
+    pub fn widen_position(&mut self, var_m2: f64) -> Result<(), StateError> {
+        let fits = (0..3).all(|i| at(&self.p, i, i) + var_m2 <= MAX_VARIANCE);
+        if !(var_m2 > 0.0 && var_m2.is_finite() && fits) {
+            return Err(StateError::VarianceOutOfRange);
+        }
+        for i in 0..3 {
+            let v = at(&self.p, i, i) + var_m2;
+            put(&mut self.p, i, i, v);
+        }
+        Ok(())
+    }
+
     /// Sets state `k` to `value` with variance `var` and no correlation with the others. The
     /// result stays positive definite: a principal block of a positive-definite matrix
     /// beside a positive diagonal element.

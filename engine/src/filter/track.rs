@@ -24,8 +24,7 @@
 //!    last update.
 
 use super::hold::{
-    shows_motion, Stillness, HELD_PROFILE, HOLD_MAX_GAP_S, RELEASE_SIGMA_MPS,
-    ZERO_VELOCITY_SIGMA_MPS,
+    shows_motion, Stillness, HELD_PROFILE, RELEASE_SIGMA_MPS, ZERO_VELOCITY_SIGMA_MPS,
 };
 use super::report::{report, Report};
 use super::state::{VEL_X, VEL_Y, VEL_Z};
@@ -91,16 +90,6 @@ pub(crate) fn step(
     };
     let mut event = FilterEvent::None;
     let dt = ctx.time.since(tr.time).as_secs_f64();
-    if tr.still.held() && dt > HOLD_MAX_GAP_S {
-        tr.still = Stillness::Moving;
-        if tr
-            .state
-            .free_velocity(RELEASE_SIGMA_MPS * RELEASE_SIGMA_MPS)
-            .is_ok()
-        {
-            event = FilterEvent::HoldReleased;
-        }
-    }
     let f = &ctx.cfg.filter;
     let noise = ProcessNoise {
         motion: if tr.still.held() {
@@ -143,7 +132,14 @@ pub(crate) fn step(
         event = FilterEvent::ClockReseated;
     }
     let held = tr.still.held();
-    let tally = update_all(&mut tr.state, cands, out, ctx.cfg, shift, held);
+    let tally = update_all(
+        &mut tr.state,
+        cands,
+        out,
+        ctx.cfg,
+        shift,
+        held.then_some(dt),
+    );
     if held && tally.motion {
         tr.still = Stillness::Moving;
         event = FilterEvent::HoldReleased;
@@ -330,7 +326,8 @@ impl Spread {
 /// Gates each unmasked candidate's pseudorange and range rate on its own innovation (χ²(1)
 /// against the prior `S = hᵀPh + R`), applies the rest in one batch (with zero-velocity
 /// rows while held and still), and records in `out` what became of each. `shift` is the
-/// clock re-seat already applied to the state, to take from the stored innovations.
+/// clock re-seat already applied to the state, to take from the stored innovations; `held`
+/// is the time since the last epoch, s, when the position is held.
 #[inline(never)]
 fn update_all(
     state: &mut FilterState,
@@ -338,7 +335,7 @@ fn update_all(
     out: &mut [Outcome],
     cfg: &Config,
     shift: f64,
-    held: bool,
+    held: Option<f64>,
 ) -> Tally {
     let gate = cfg.filter.gate;
     let mut batch = Batch::new();
@@ -356,7 +353,7 @@ fn update_all(
         let nu = o.residual_m - shift;
         let r = range_variance(cfg, o);
         let row = MeasurementRow::pseudorange(u, system(c));
-        if held {
+        if held.is_some() {
             ranges.add(nu, r);
         }
         let nis = nu * nu / state.innovation_variance(&row, r);
@@ -378,7 +375,7 @@ fn update_all(
         let nu = rate - predicted_rate(state, c, u);
         let s = doppler_sigma(cfg, c);
         let row = MeasurementRow::range_rate(u);
-        if held {
+        if held.is_some() {
             rates.add(nu, s * s);
         }
         let nis = nu * nu / state.innovation_variance(&row, s * s);
@@ -387,13 +384,12 @@ fn update_all(
             t.rates = t.rates.saturating_add(1);
         }
     }
-    if held {
-        t.motion = rates
-            .shows_motion()
-            .or_else(|| ranges.shows_motion())
-            .unwrap_or(false);
+    if let Some(dt) = held {
+        t.motion = rates.shows_motion().unwrap_or(false) || ranges.shows_motion().unwrap_or(false);
         if t.motion {
+            let moved = RELEASE_SIGMA_MPS * dt.max(1.0);
             let _ = state.free_velocity(RELEASE_SIGMA_MPS * RELEASE_SIGMA_MPS);
+            let _ = state.widen_position(moved * moved);
         } else {
             zero_velocity(&mut batch, state);
         }

@@ -6,7 +6,7 @@ use crate::record::EpochRecord;
 use std::fmt::Write as _;
 
 /// The header line.
-pub const HEADER: &str = "gps_week,tow_s,utc,fix,lat_deg,lon_deg,height_m,east_err_m,north_err_m,up_err_m,used,hdop,vdop,pdop,sigma_east_m,sigma_north_m,sigma_up_m,residual_rms_m,vel_east_mps,vel_north_mps,vel_up_mps,no_fix_reason";
+pub const HEADER: &str = "gps_week,tow_s,utc,fix,fix_kind,lat_deg,lon_deg,height_m,east_err_m,north_err_m,up_err_m,used,hdop,vdop,pdop,sigma_east_m,sigma_north_m,sigma_up_m,residual_rms_m,vel_east_mps,vel_north_mps,vel_up_mps,vel_sigma_east_mps,vel_sigma_north_mps,vel_sigma_up_mps,no_fix_reason,filter_event";
 
 /// The CSV document of a run.
 pub fn write_run(records: &[EpochRecord]) -> String {
@@ -28,10 +28,14 @@ pub fn write_run(records: &[EpochRecord]) -> String {
                 let vel = f.velocity_enu_mps.map_or(",,".to_string(), |v| {
                     format!("{:.3},{:.3},{:.3}", v[0], v[1], v[2])
                 });
+                let vel_sigma = f.velocity_sigma_enu_mps.map_or(",,".to_string(), |v| {
+                    format!("{:.3},{:.3},{:.3}", v[0], v[1], v[2])
+                });
                 let _ = writeln!(
                     s,
-                    "{:?},{:.9},{:.9},{:.3},{err},{},{:.2},{:.2},{:.2},{:.3},{:.3},{:.3},{:.3},{vel},",
+                    "{:?},{},{:.9},{:.9},{:.3},{err},{},{:.2},{:.2},{:.2},{:.3},{:.3},{:.3},{:.3},{vel},{vel_sigma},,{}",
                     f.kind,
+                    f.source.as_str(),
                     f.lat_lon_h[0],
                     f.lat_lon_h[1],
                     f.lat_lon_h[2],
@@ -42,7 +46,8 @@ pub fn write_run(records: &[EpochRecord]) -> String {
                     f.sigma_enu_m[0],
                     f.sigma_enu_m[1],
                     f.sigma_enu_m[2],
-                    f.residual_rms_m
+                    f.residual_rms_m,
+                    r.filter_event.as_str()
                 );
             }
             None => {
@@ -50,7 +55,11 @@ pub fn write_run(records: &[EpochRecord]) -> String {
                     .no_fix
                     .map(|n| format!("{n:?}").replace(',', ";"))
                     .unwrap_or_default();
-                let _ = writeln!(s, "None,,,,,,,,,,,,,,,,,,{reason}");
+                let _ = writeln!(
+                    s,
+                    "None,none,,,,,,,,,,,,,,,,,,,,,,,{reason},{}",
+                    r.filter_event.as_str()
+                );
             }
         }
     }

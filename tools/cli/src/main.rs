@@ -13,8 +13,9 @@ use indicatif::{ProgressBar, ProgressStyle};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 use std::time::{Duration, Instant};
+use trackfix_engine::config::FilterMode;
 use trackfix_engine::{Config, System};
-use trackfix_harness::manifest::{splice, table, Manifest, MANIFEST};
+use trackfix_harness::manifest::{config_for, splice, table, Manifest, MANIFEST};
 use trackfix_harness::metrics::Summary;
 use trackfix_harness::record::EpochRecord;
 use trackfix_harness::replay::{read_truth_csv, replay_with_progress, Dataset, Truth};
@@ -27,7 +28,7 @@ follow local regulations and licensed practice.";
 const DEMO: &str = r#"
 seed = 2026
 duration_s = 600
-origin = [45.76, 4.84, 170.0]
+origin = [46.287, 4.118, 170.0]
 motion = "truck"
 systems = ["gps", "galileo"]
 [errors]
@@ -56,6 +57,10 @@ enum Command {
         /// defaults, see docs/architecture.md).
         #[arg(long)]
         config: Option<PathBuf>,
+        /// Snapshot fixes only: every epoch its own least-squares solution, no navigation
+        /// filter (overrides the configuration file's `filter.mode`).
+        #[arg(long)]
+        snapshot_only: bool,
     },
     /// Replay a recorded RINEX observation file with its navigation file(s).
     Replay {
@@ -82,6 +87,10 @@ enum Command {
         /// defaults).
         #[arg(long)]
         config: Option<PathBuf>,
+        /// Snapshot fixes only: every epoch its own least-squares solution, no navigation
+        /// filter (overrides the configuration file's `filter.mode`).
+        #[arg(long)]
+        snapshot_only: bool,
     },
     /// Run one row of the dataset manifest (synthetic or recorded) and write its report.
     Report {
@@ -91,6 +100,10 @@ enum Command {
         /// Folder for the report.
         #[arg(long)]
         out: PathBuf,
+        /// Snapshot fixes only: every epoch its own least-squares solution, no navigation
+        /// filter (overrides the configuration file's `filter.mode`).
+        #[arg(long)]
+        snapshot_only: bool,
     },
     /// Write a wire-frame stream for the firmware example, or run one on the host.
     Frames {
@@ -208,9 +221,14 @@ fn parse_xyz(s: &str) -> Result<[f64; 3], String> {
 fn main() -> ExitCode {
     let cli = Cli::parse();
     let result = match cli.command {
-        Command::Demo { every, out, config } => {
-            load_config(config.as_deref()).and_then(|cfg| demo(every.max(1), out.as_deref(), cfg))
-        }
+        Command::Demo {
+            every,
+            out,
+            config,
+            snapshot_only,
+        } => load_config(config.as_deref())
+            .map(|cfg| mode(cfg, snapshot_only))
+            .and_then(|cfg| demo(every.max(1), out.as_deref(), cfg)),
         Command::Replay {
             obs,
             nav,
@@ -219,7 +237,9 @@ fn main() -> ExitCode {
             systems,
             out,
             config,
+            snapshot_only,
         } => load_config(config.as_deref()).and_then(|cfg| {
+            let cfg = mode(cfg, snapshot_only);
             let cfg = match (systems.as_deref(), &config) {
                 (Some(letters), _) => with_system_letters(cfg, letters),
                 (None, Some(_)) => cfg,
@@ -227,7 +247,11 @@ fn main() -> ExitCode {
             };
             replay_cmd(obs, nav, truth, truth_csv, cfg, out.as_deref())
         }),
-        Command::Report { row, out } => report_cmd(&row, &out),
+        Command::Report {
+            row,
+            out,
+            snapshot_only,
+        } => report_cmd(&row, &out, snapshot_only),
         Command::Frames { what } => frames_cmd(what),
         Command::Manifest { write_docs } => manifest_cmd(write_docs),
     };
@@ -252,6 +276,14 @@ fn load_config(path: Option<&Path>) -> Result<Config, String> {
     cfg.validate()
         .map_err(|e| format!("{}: {e}", path.display()))?;
     Ok(cfg)
+}
+
+/// `cfg` without the navigation filter when `snapshot_only` is set.
+fn mode(mut cfg: Config, snapshot_only: bool) -> Config {
+    if snapshot_only {
+        cfg.filter.mode = FilterMode::Snapshot;
+    }
+    cfg
 }
 
 /// `cfg` with only the systems whose letters (g, e, c) appear in `letters`.
@@ -291,8 +323,8 @@ fn demo(every: usize, out: Option<&Path>, cfg: Config) -> Result<(), String> {
     let spec = scenario::parse(DEMO, "built-in demo")?;
     let records = scenario::run(&spec, cfg)?;
     println!(
-        "{:>7} {:>11} {:>11} {:>7} {:>6} {:>6} {:>6} {:>4} {:>5} fix",
-        "t s", "lat °", "lon °", "h m", "E m", "N m", "U m", "sats", "HDOP"
+        "{:>7} {:>11} {:>11} {:>7} {:>6} {:>6} {:>6} {:>6} {:>4} {:>5} fix",
+        "t s", "lat °", "lon °", "h m", "E m", "N m", "U m", "σH m", "sats", "HDOP"
     );
     let t0 = records.first().map(|r| r.time);
     for r in records.iter().step_by(every) {
@@ -300,15 +332,16 @@ fn demo(every: usize, out: Option<&Path>, cfg: Config) -> Result<(), String> {
         match (r.fix, r.no_fix) {
             (Some(f), _) => {
                 let [e, n, u] = f.enu_error_m.unwrap_or([f64::NAN; 3]);
+                let sigma_h = f.sigma_enu_m[0].hypot(f.sigma_enu_m[1]);
                 println!(
-                    "{t:>7.0} {:>11.6} {:>11.6} {:>7.1} {e:>6.2} {n:>6.2} {u:>6.2} {:>4} {:>5.2} {:?}",
-                    f.lat_lon_h[0], f.lat_lon_h[1], f.lat_lon_h[2], f.used, f.hdop, f.kind
+                    "{t:>7.0} {:>11.6} {:>11.6} {:>7.1} {e:>6.2} {n:>6.2} {u:>6.2} {sigma_h:>6.2} {:>4} {:>5.2} {}",
+                    f.lat_lon_h[0], f.lat_lon_h[1], f.lat_lon_h[2], f.used, f.hdop, f.source.as_str()
                 );
             }
             (None, reason) => println!("{t:>7.0} no fix: {reason:?}"),
         }
     }
-    println!("\n(E/N/U: error against the scenario's truth)");
+    println!("\n(E/N/U: error against the scenario's truth; σH: the engine's own horizontal 1-σ)");
     let s = Summary::of(&records);
     print_summary(&s);
     if let Some(dir) = out {
@@ -365,15 +398,15 @@ fn replay_cmd(
     Ok(())
 }
 
-fn report_cmd(row: &str, out: &Path) -> Result<(), String> {
+fn report_cmd(row: &str, out: &Path, snapshot_only: bool) -> Result<(), String> {
     println!("{CAUTION}");
     let m = Manifest::read(&root().join(MANIFEST))?;
     let records: Vec<EpochRecord> = if let Some(r) = m.scenario.iter().find(|r| r.name == row) {
-        r.records()?
+        r.records_with(mode(config_for(r.systems()), snapshot_only))?
     } else if let Some(r) = m.dataset.iter().find(|r| r.name == row) {
         let dir = trackfix_harness::data::data_dir()
             .ok_or("recorded data folder not found (set TRACKFIX_DATA)")?;
-        r.records(&dir)?
+        r.records_with(&dir, mode(config_for(&r.systems), snapshot_only))?
     } else {
         let names: Vec<&str> = m
             .scenario
