@@ -196,3 +196,90 @@ fn filtered_against_snapshot_per_row() {
         }
     }
 }
+
+// A duty-cycled wake-up: a parked tracker is tracked for two minutes, sleeps five minutes,
+// and wakes with a new receiver clock (its pseudoranges all 123,456.7 m longer, inside the
+// ±1 ms a wake-up may bring) and only three satellites in its first epoch. The filter,
+// which kept its state through the sleep, re-seats the clock from the median innovation
+// and gives a fix from three satellites; an engine without the prior (a fresh one, as after
+// a reset) has none, and needs its least squares from the Earth's centre on the next full
+// epoch. Iterations and errors are printed for the closing figures.
+#[test]
+fn a_wake_up_keeps_the_position_prior() {
+    use trackfix_engine::{Engine, FilterEvent, FixOutcome, NoFixReason};
+    use trackfix_harness::scenario::generate::{Generator, GEN_N, SCENARIO_IONO};
+    use trackfix_harness::scenario::SCENARIO_EPH;
+    let spec = trackfix_harness::scenario::parse(
+        "seed = 31\nduration_s = 600\norigin = [46.81, 2.47, 160.0]\nsystems = [\"gps\", \"galileo\"]\n",
+        "wake-up",
+    )
+    .unwrap();
+    let gen: Vec<_> = Generator::new(&spec).unwrap().collect();
+    let mut kept: Box<Engine<GEN_N, SCENARIO_EPH>> =
+        Box::new(Engine::new(Config::default()).unwrap());
+    let mut fresh: Box<Engine<GEN_N, SCENARIO_EPH>> =
+        Box::new(Engine::new(Config::default()).unwrap());
+    for e in [&mut kept, &mut fresh] {
+        e.set_ionosphere(SCENARIO_IONO).unwrap();
+    }
+    for g in &gen {
+        for e in &g.new_ephemerides {
+            let _ = kept.ingest_ephemeris(*e);
+            let _ = fresh.ingest_ephemeris(*e);
+        }
+    }
+    for g in &gen[..120] {
+        kept.process(&g.epoch).unwrap();
+    }
+    // Wake-up at 420 s: three satellites, a new clock.
+    let wake = &gen[420];
+    let mut first = wake.epoch.clone();
+    first.obs.truncate(3);
+    for o in first.obs.iter_mut() {
+        o.pseudorange_m += 123_456.7;
+    }
+    let sol = kept.process(&first).unwrap();
+    assert_eq!(sol.filter_event, FilterEvent::ClockReseated);
+    let FixOutcome::Fix(fix) = sol.outcome else {
+        panic!(
+            "no fix from three satellites with the prior: {:?}",
+            sol.outcome
+        )
+    };
+    let err = trackfix_engine::LocalFrame::at_ecef(wake.truth_ecef).enu(fix.ecef_m);
+    println!(
+        "wake-up with a new clock, 3 satellites: {:?} fix, {} least-squares iterations, horizontal error {:.2} m",
+        fix.source,
+        fix.iterations,
+        err[0].hypot(err[1])
+    );
+    // The prior is the held position of two minutes: the error stays that of a fix, far
+    // inside the snapshot's 95 % threshold of the static rows (2.1 m, host-tests/manifest.toml).
+    assert!(err[0].hypot(err[1]) < 2.1);
+    assert_eq!(fix.iterations, 0);
+    let cold = fresh.process(&first).unwrap();
+    assert!(matches!(
+        cold.outcome,
+        FixOutcome::NoFix(NoFixReason::TooFewSatellites { .. })
+    ));
+    // The next full epoch: the fresh engine's least squares from the Earth's centre.
+    let next = &gen[421];
+    let FixOutcome::Fix(cold_fix) = fresh.process(&next.epoch).unwrap().outcome else {
+        panic!("the fresh engine has no fix from a full epoch")
+    };
+    let mut shifted = next.epoch.clone();
+    for o in shifted.obs.iter_mut() {
+        o.pseudorange_m += 123_456.7;
+    }
+    let warm = kept.process(&shifted).unwrap();
+    let warm_fix = warm.fix().unwrap();
+    println!(
+        "next full epoch ({} satellites): without the prior {} iterations from the Earth's centre; with it {:?}, {} iterations",
+        next.epoch.obs.len(),
+        cold_fix.iterations,
+        warm_fix.source,
+        warm_fix.iterations
+    );
+    assert!(cold_fix.iterations >= 3);
+    assert_eq!(warm_fix.iterations, 0);
+}

@@ -6,7 +6,9 @@
 //! functions) the same mistake would cancel and pass unseen.
 
 use std::path::Path;
-use trackfix_harness::manifest::{config_for, Manifest, ScenarioRow, Threshold, MANIFEST};
+use trackfix_harness::manifest::{
+    config_for, snapshot_config, Manifest, ScenarioRow, Threshold, MANIFEST,
+};
 use trackfix_harness::metrics::Summary;
 use trackfix_harness::scenario::run_mutated;
 use trackfix_harness::truth::Mutation;
@@ -32,9 +34,18 @@ fn crossed(t: &Threshold, s: &Summary) -> Vec<&'static str> {
     .collect()
 }
 
-fn summary(row: &ScenarioRow, m: Mutation) -> Summary {
-    let cfg = config_for(row.engine_systems.as_deref().unwrap_or(&row.spec.systems));
-    Summary::of(&run_mutated(&row.spec, cfg, m).unwrap())
+/// The row's two runs under mutation `m`, each with its limits: the default (filtered)
+/// and snapshot-only.
+fn summaries(row: &ScenarioRow, m: Mutation) -> [(&'static str, Summary, Threshold); 2] {
+    let run = |cfg| Summary::of(&run_mutated(&row.spec, cfg, m).unwrap());
+    [
+        ("filtered", run(config_for(row.systems())), row.filtered),
+        (
+            "snapshot",
+            run(snapshot_config(row.systems())),
+            row.threshold,
+        ),
+    ]
 }
 
 #[test]
@@ -64,19 +75,21 @@ fn each_sign_error_crosses_the_static_rows_thresholds() {
     ];
     for name in ["static-depot", "static-gps-only"] {
         let r = row(name);
-        let clean = summary(&r, Mutation::default());
-        assert!(
-            crossed(&r.threshold, &clean).is_empty(),
-            "{name} without a mutation must pass"
-        );
-        for (what, m) in mutations {
-            let s = summary(&r, m);
-            let over = crossed(&r.threshold, &s);
-            println!(
-                "{name}, {what}: H 95 % {:.2} m, V 95 % {:.2} m, crosses {over:?}",
-                s.horizontal.p95, s.vertical.p95
+        for (run, clean, t) in summaries(&r, Mutation::default()) {
+            assert!(
+                crossed(&t, &clean).is_empty(),
+                "{name} ({run}) without a mutation must pass"
             );
-            assert!(!over.is_empty(), "{name}: {what} passed unseen");
+        }
+        for (what, m) in mutations {
+            for (run, s, t) in summaries(&r, m) {
+                let over = crossed(&t, &s);
+                println!(
+                    "{name} ({run}), {what}: H 95 % {:.2} m, V 95 % {:.2} m, crosses {over:?}",
+                    s.horizontal.p95, s.vertical.p95
+                );
+                assert!(!over.is_empty(), "{name} ({run}): {what} passed unseen");
+            }
         }
     }
 }

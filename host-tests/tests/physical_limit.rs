@@ -26,9 +26,12 @@ fn receiver() -> StaticReceiver {
     }
 }
 
-/// Equal weights σ and no atmosphere: the model matches the data exactly.
+/// Equal weights σ and no atmosphere: the model matches the data exactly. Snapshot fixes:
+/// these are the least-squares solution's physical limits (the filter's are in
+/// filter_consistency.rs).
 fn matched_config(sigma: f64) -> Config {
     let mut c = Config::default();
+    c.filter.mode = trackfix_engine::config::FilterMode::Snapshot;
     c.corrections.ionosphere = IonoModel::Off;
     c.corrections.troposphere = TropoModel::Off;
     c.snapshot.sigma_floor_m = sigma;
