@@ -80,12 +80,13 @@ fn max_or(v: impl Iterator<Item = f64>, floor: f64) -> f64 {
 
 /// Horizontal and vertical error against time.
 pub fn error_vs_time(path: &Path, title: &str, records: &[EpochRecord]) -> Res {
-    let pts: Vec<(f64, f64, f64)> = records
+    let pts: Vec<(f64, f64, f64, f64)> = records
         .iter()
         .filter_map(|r| {
-            r.fix
-                .and_then(|f| f.enu_error_m)
-                .map(|d| (minutes(records, r), d[0].hypot(d[1]), d[2]))
+            let f = r.fix?;
+            let d = f.enu_error_m?;
+            let sigma_h = f.sigma_enu_m[0].hypot(f.sigma_enu_m[1]);
+            Some((minutes(records, r), d[0].hypot(d[1]), d[2], sigma_h))
         })
         .collect();
     let t1 = max_or(pts.iter().map(|p| p.0), 1.0);
@@ -109,8 +110,12 @@ pub fn error_vs_time(path: &Path, title: &str, records: &[EpochRecord]) -> Res {
         .map_err(e)?;
     let h: Vec<(f64, f64)> = pts.iter().map(|p| (p.0, p.1)).collect();
     let u: Vec<(f64, f64)> = pts.iter().map(|p| (p.0, p.2)).collect();
-    draw_broken(&mut c, &h, INK, "horizontal")?;
-    draw_broken(&mut c, &u, EMBER, "up")?;
+    // The engine's own horizontal σ, clipped to the plot (it grows to hundreds of metres
+    // while an outage is bridged by prediction).
+    let sig: Vec<(f64, f64)> = pts.iter().map(|p| (p.0, p.3.min(ymax))).collect();
+    draw_broken(&mut c, &h, INK, "horizontal error")?;
+    draw_broken(&mut c, &u, EMBER, "up error")?;
+    draw_broken(&mut c, &sig, MOSS, "horizontal σ (engine)")?;
     c.configure_series_labels()
         .background_style(WHITE.mix(0.8))
         .border_style(BLACK)
