@@ -95,13 +95,22 @@ impl<const D: usize> Cholesky<D> {
 /// when a pivot is not positive and finite (not positive definite, or NaN); `a` is then
 /// partly overwritten.
 pub fn factor_in_place<const D: usize>(a: &mut Mat<D>) -> bool {
+    factor_in_place_with_margin(a, 0.0)
+}
+
+/// As [`factor_in_place`], and `false` also when a pivot falls to `margin` times its
+/// diagonal element or below: when an unknown is determined by the others to that
+/// relative precision, f64 has lost it (`margin` 1e-12 keeps four digits of sixteen).
+/// Scale-free: the test compares each unknown's variance given the others with its own.
+pub fn factor_in_place_with_margin<const D: usize>(a: &mut Mat<D>, margin: f64) -> bool {
     for j in 0..D {
-        let mut d = at(a, j, j);
+        let ajj = at(a, j, j);
+        let mut d = ajj;
         for k in 0..j {
             let v = at(a, j, k);
             d -= v * v;
         }
-        if !(d > 0.0 && d.is_finite()) {
+        if !(d > margin * ajj && d > 0.0 && d.is_finite()) {
             return false;
         }
         let djj = libm::sqrt(d);
@@ -156,9 +165,10 @@ pub fn invert_factor_in_place<const D: usize>(m: &mut Mat<D>) {
 }
 
 /// Inverts a symmetric positive-definite matrix in place (only its lower triangle is read).
-/// `false` when it is not positive definite; `a` is then partly overwritten.
-pub fn invert_spd_in_place<const D: usize>(a: &mut Mat<D>) -> bool {
-    if !factor_in_place(a) {
+/// `false` when it is not positive definite, or not by `margin` (see
+/// [`factor_in_place_with_margin`]); `a` is then partly overwritten.
+pub fn invert_spd_in_place<const D: usize>(a: &mut Mat<D>, margin: f64) -> bool {
+    if !factor_in_place_with_margin(a, margin) {
         return false;
     }
     invert_factor_in_place(a);

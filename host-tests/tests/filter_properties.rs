@@ -1,5 +1,5 @@
-//! Property test of the filter core (issue 8): random sequences of predictions, updates and
-//! clock operations, valid and invalid (NaN, ±∞, zero and negative variances and gates,
+//! Property test of the filter core (issue 8): random sequences of predictions, scalar and
+//! batch (information-form) updates, clock operations and hold releases, valid and invalid (NaN, ±∞, zero and negative variances and gates,
 //! steps that are negative, zero or ten years long, out-of-range noise parameters, huge
 //! innovations, measurements far more precise than the state), keep the state finite, `P`
 //! exactly symmetric and positive definite (Cholesky), and leave the state untouched
@@ -8,7 +8,8 @@
 use proptest::prelude::*;
 use trackfix_engine::filter::state::STATE_LEN;
 use trackfix_engine::filter::{
-    ClockNoise, FilterState, FixPrior, MeasurementRow, MotionProfile, ProcessNoise, UpdateOutcome,
+    Batch, ClockNoise, FilterState, FixPrior, MeasurementRow, MotionProfile, ProcessNoise,
+    UpdateOutcome,
 };
 use trackfix_engine::System;
 
@@ -30,6 +31,13 @@ enum Op {
         variance: f64,
     },
     Shift(f64),
+    /// Several measurements in one information-form update (the pipeline's).
+    Batch(Vec<(MeasurementRow, f64, f64)>),
+    /// A held asset released: velocity freed, position widened.
+    Release {
+        velocity_var: f64,
+        position_var: f64,
+    },
 }
 
 /// Mostly ordinary values from `normal`, sometimes one of the bad ones.
@@ -145,6 +153,13 @@ fn op() -> impl Strategy<Value = Op> {
             BAD
         )
         .prop_map(Op::Shift),
+        2 => proptest::collection::vec(
+            (row(), mostly(-300.0f64..300.0, BAD), mostly(log_uniform(1e-4, 1e6), BAD)),
+            1..24,
+        )
+        .prop_map(Op::Batch),
+        1 => (mostly(log_uniform(1e-4, 1e4), BAD), mostly(log_uniform(1e-2, 1e8), BAD))
+            .prop_map(|(velocity_var, position_var)| Op::Release { velocity_var, position_var }),
     ]
 }
 
@@ -211,6 +226,18 @@ proptest! {
                 }
                 Op::Reseat { bias, variance } => s.reseat_clock(bias, variance, 0.0, 1e4).is_ok(),
                 Op::Shift(d) => s.shift_clock_bias(d).is_ok(),
+                Op::Batch(rows) => {
+                    let mut batch = Batch::new();
+                    for (row, innovation, variance) in &rows {
+                        let _ = batch.add(row, *innovation, *variance);
+                    }
+                    batch.count() > 0 && s.apply(&batch).is_ok()
+                }
+                Op::Release { velocity_var, position_var } => {
+                    let a = s.free_velocity(velocity_var).is_ok();
+                    let b = s.widen_position(position_var).is_ok();
+                    a || b
+                }
             };
             if !changed {
                 prop_assert_eq!(s, before, "step {}: refused or gated but changed", n);
