@@ -85,7 +85,11 @@ fn azimuth_elevation_of_zenith_and_north() {
 // exact conversion for moves of metres to 100 m, at mid latitudes and near a pole.
 #[test]
 fn a_nudged_position_matches_the_exact_conversion() {
-    for (lat, lon, h) in [(47.6, 8.9, 412.0), (-33.9, 151.2, 40.0), (89.0, 20.0, 0.0)] {
+    for (lat, lon, h) in [
+        (47.6, 8.9, 412.0),
+        (-33.62, 150.31, 40.0),
+        (89.0, 20.0, 0.0),
+    ] {
         let g = Geodetic::from_degrees(lat, lon, h);
         let origin = g.to_ecef();
         let frame = LocalFrame::new(origin, &g);

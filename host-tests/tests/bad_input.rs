@@ -22,7 +22,7 @@ fn setup() -> (TestEngine, Epoch<40>, Vec<BroadcastEphemeris>) {
         e.ingest_ephemeris(*eph).unwrap();
     }
     let rx = StaticReceiver {
-        position: Geodetic::from_degrees(-33.9, 151.2, 10.0).to_ecef(),
+        position: Geodetic::from_degrees(-33.62, 150.31, 10.0).to_ecef(),
         horizon_deg: 15.0,
         clock_bias_m: 0.0,
         inter_system_bias_m: 0.0,
@@ -329,4 +329,22 @@ fn bad_doppler_is_refused_alone() {
     epoch.obs[0].doppler_hz = Some(0.0);
     let sol = engine.process(&epoch).unwrap();
     assert_eq!(sol.sats[0].doppler, DopplerUse::NotReported);
+}
+
+// A ten-year jump between epochs: the filter does not predict across it (longer than
+// `filter.max_gap_s`), the ephemerides are far too old to use, and the epoch gives no fix
+// with its reasons — no panic, no NaN, and the filter says it restarted.
+#[test]
+fn a_ten_year_step_is_not_predicted_across() {
+    let (mut engine, epoch, _) = setup();
+    assert!(engine.process(&epoch).unwrap().fix().is_some());
+    let mut later = epoch.clone();
+    later.time = epoch.time.add_seconds(10.0 * 365.25 * 86_400.0);
+    let sol = engine.process(&later).unwrap();
+    assert!(sol.fix().is_none());
+    assert_eq!(
+        sol.filter_event,
+        trackfix_engine::FilterEvent::RestartedAfterGap
+    );
+    assert!(sol.sats.iter().all(|s| s.status == SatStatus::Stale));
 }

@@ -9,7 +9,7 @@ fn a_remembered_position_shortens_the_first_solution() {
     let t0 = GnssTime::from_week_tow(2300, 100_000.0).unwrap();
     let cons = constellation(21, t0, &[System::Gps, System::Galileo]);
     let rx = StaticReceiver {
-        position: Geodetic::from_degrees(60.2, 24.9, 30.0).to_ecef(),
+        position: Geodetic::from_degrees(60.41, 25.62, 30.0).to_ecef(),
         horizon_deg: 10.0,
         clock_bias_m: 5_000.0,
         inter_system_bias_m: 2.0,

@@ -78,17 +78,33 @@ impl Batch {
         innovation: f64,
         variance: f64,
     ) -> Result<(), UpdateError> {
-        if !innovation.is_finite() {
-            return Err(UpdateError::InvalidInnovation);
-        }
         if !(variance > 0.0 && variance.is_finite()) {
             return Err(UpdateError::InvalidVariance);
         }
-        let h = row.coefficients();
-        if !h.iter().all(|v| v.abs() <= MAX_ROW_COEFFICIENT) || h.iter().all(|v| *v == 0.0) {
+        self.add_weighted(row, innovation, 1.0 / variance)
+    }
+
+    /// As [`Batch::add`] with the weight `1/R` already computed (the stage shares it with
+    /// its motion test: one division per measurement fewer on the target).
+    pub(crate) fn add_weighted(
+        &mut self,
+        row: &MeasurementRow,
+        innovation: f64,
+        w: f64,
+    ) -> Result<(), UpdateError> {
+        if !innovation.is_finite() {
+            return Err(UpdateError::InvalidInnovation);
+        }
+        if !(w > 0.0 && w.is_finite()) {
+            return Err(UpdateError::InvalidVariance);
+        }
+        // Only the non-zero coefficients can be out of range (NaN is non-zero).
+        let mut coefficients = row.nonzero().peekable();
+        if coefficients.peek().is_none()
+            || !coefficients.all(|(_, v)| v.abs() <= MAX_ROW_COEFFICIENT)
+        {
             return Err(UpdateError::InvalidRow);
         }
-        let w = 1.0 / variance;
         for (i, hi) in row.nonzero() {
             let whi = w * hi;
             if let Some(v) = self.vector.get_mut(i) {

@@ -304,8 +304,8 @@ struct Spread {
 }
 
 impl Spread {
-    fn add(&mut self, innovation: f64, variance: f64) {
-        let w = 1.0 / variance;
+    /// Adds an innovation of weight `w = 1/R`.
+    fn add(&mut self, innovation: f64, w: f64) {
         self.w += w;
         self.wn += w * innovation;
         self.wn2 += w * innovation * innovation;
@@ -353,8 +353,9 @@ fn update_all(
         let nu = o.residual_m - shift;
         let r = range_variance(cfg, o);
         let row = MeasurementRow::pseudorange(u, system(c));
+        let w = 1.0 / r;
         if held.is_some() {
-            ranges.add(nu, r);
+            ranges.add(nu, w);
         }
         let nis = nu * nu / state.innovation_variance(&row, r);
         // NaN (a zero S) fails the gate too.
@@ -363,7 +364,7 @@ fn update_all(
             t.gated = t.gated.saturating_add(1);
             continue;
         }
-        if batch.add(&row, nu, r).is_err() {
+        if batch.add_weighted(&row, nu, w).is_err() {
             continue;
         }
         o.used = true;
@@ -375,11 +376,12 @@ fn update_all(
         let nu = rate - predicted_rate(state, c, u);
         let s = doppler_sigma(cfg, c);
         let row = MeasurementRow::range_rate(u);
+        let w = 1.0 / (s * s);
         if held.is_some() {
-            rates.add(nu, s * s);
+            rates.add(nu, w);
         }
         let nis = nu * nu / state.innovation_variance(&row, s * s);
-        if nis <= gate && batch.add(&row, nu, s * s).is_ok() {
+        if nis <= gate && batch.add_weighted(&row, nu, w).is_ok() {
             o.rate_innovation_mps = Some(nu as f32);
             t.rates = t.rates.saturating_add(1);
         }
