@@ -6,11 +6,12 @@ use crate::corrections::iono::IonoCoefficients;
 use crate::filter::track::{self, Context, Step, Tracked};
 use crate::frames::LocalFrame;
 use crate::measurements::observation::{Epoch, Observation};
+use crate::measurements::record::{Candidate, Fate, Measurement, Outcome};
 use crate::nav::ephemeris::{BroadcastEphemeris, EphemerisError};
 use crate::nav::store::{EphemerisStore, Ingested, StoredEphemeris};
 use crate::sat::SPEED_OF_LIGHT;
 use crate::snapshot::velocity::{solve_velocity, RateRow};
-use crate::snapshot::wls::{solve, Candidate, Outcome, Setup};
+use crate::snapshot::wls::{solve, Setup};
 use crate::solution::{
     DopplerUse, FilterEvent, Fix, FixKind, FixOutcome, FixSource, NoFixReason, SatStatus, SatUse,
     Solution, Velocity,
@@ -190,18 +191,19 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         self.last_time = Some(epoch.time);
 
         let mut sats: Vec<SatUse, N> = Vec::new();
-        let mut cands: Vec<Candidate, N> = Vec::new();
-        // Index into `sats` of each candidate.
-        let mut cand_index: Vec<usize, N> = Vec::new();
+        // One record per screened observation, carried through every stage.
+        let mut meas: Vec<Measurement, N> = Vec::new();
         for (i, obs) in epoch.obs.iter().enumerate() {
             let earlier = epoch.obs.iter().take(i);
             let range_rate = range_rate_mps(obs, &self.config);
             let status = match self.screen(obs, earlier, epoch.time, range_rate) {
-                Ok(c) => {
-                    // Both capacities are N and there is at most one push per observation.
-                    if cands.push(c).is_ok() {
-                        let _ = cand_index.push(i);
-                    }
+                Ok(sat) => {
+                    // Capacity N and at most one push per observation.
+                    let _ = meas.push(Measurement {
+                        index: i,
+                        sat,
+                        out: Outcome::default(),
+                    });
                     SatStatus::NotSolved
                 }
                 Err(s) => s,
@@ -218,12 +220,8 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             });
         }
 
-        let mut outcomes: Vec<Outcome, N> = Vec::new();
-        for _ in 0..cands.len() {
-            let _ = outcomes.push(Outcome::default());
-        }
-        let (result, filter_event) = self.solve_epoch(epoch.time, &cands, &mut outcomes);
-        self.mark(&result, &cands, &outcomes, &cand_index, &mut sats);
+        let (result, filter_event) = self.solve_epoch(epoch.time, &mut meas);
+        self.mark(&result, &meas, &mut sats);
         let outcome = match result {
             Ok(fix) => {
                 if fix.kind == FixKind::ThreeD {
@@ -315,12 +313,11 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
     fn solve_epoch(
         &mut self,
         t: GnssTime,
-        cands: &[Candidate],
-        outcomes: &mut [Outcome],
+        meas: &mut [Measurement],
     ) -> (Result<Fix, NoFixReason>, FilterEvent) {
         if self.config.filter.mode != FilterMode::Tracking {
             self.tracked = None;
-            return (self.snapshot(t, cands, outcomes), FilterEvent::None);
+            return (self.snapshot(t, meas), FilterEvent::None);
         }
         let ctx = Context {
             cfg: &self.config,
@@ -328,14 +325,14 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             tow_s: t.tow_s(),
             time: t,
         };
-        let event = match track::step(&mut self.tracked, &ctx, cands, outcomes) {
+        let event = match track::step(&mut self.tracked, &ctx, meas) {
             Step::Fix(fix, event) => return (Ok(fix), event),
             Step::Lost(event) => event,
         };
-        for o in outcomes.iter_mut() {
-            *o = Outcome::default();
+        for m in meas.iter_mut() {
+            m.out = Outcome::default();
         }
-        let result = self.snapshot(t, cands, outcomes);
+        let result = self.snapshot(t, meas);
         self.tracked = result.as_ref().ok().and_then(|fix| track::start(fix, t));
         let event = match (event, &self.tracked) {
             (FilterEvent::Started, None) => FilterEvent::None,
@@ -348,12 +345,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
 
     /// The least-squares solution of the epoch with its Doppler velocity.
     #[inline(never)]
-    fn snapshot(
-        &self,
-        t: GnssTime,
-        cands: &[Candidate],
-        outcomes: &mut [Outcome],
-    ) -> Result<Fix, NoFixReason> {
+    fn snapshot(&self, t: GnssTime, meas: &mut [Measurement]) -> Result<Fix, NoFixReason> {
         let hold_height_m = self.anchor.and_then(|a| {
             (t.since(a.time).as_secs_f64() <= self.config.snapshot.altitude_hold_max_age_s)
                 .then_some(a.height_m)
@@ -365,40 +357,35 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             seed: self.anchor.map_or([0.0; 3], |a| a.ecef_m),
             hold_height_m,
         };
-        let mut fix = solve(cands, &setup, outcomes)?;
-        fix.velocity = self.velocity(&fix, cands, outcomes);
+        let mut fix = solve(meas, &setup)?;
+        fix.velocity = self.velocity(&fix, meas);
         Ok(fix)
     }
 
-    /// Writes into `sats` what the solution made of each candidate.
-    fn mark(
-        &self,
-        result: &Result<Fix, NoFixReason>,
-        cands: &[Candidate],
-        outcomes: &[Outcome],
-        cand_index: &[usize],
-        sats: &mut [SatUse],
-    ) {
+    /// Writes into `sats` what the solution made of each measurement.
+    fn mark(&self, result: &Result<Fix, NoFixReason>, meas: &[Measurement], sats: &mut [SatUse]) {
         let snapshot = result
             .as_ref()
             .is_ok_and(|f| f.source == FixSource::Snapshot);
         let sigma = self.config.snapshot.doppler_sigma_mps;
-        for ((c, o), &i) in cands.iter().zip(outcomes).zip(cand_index) {
-            let Some(s) = sats.get_mut(i) else {
+        for m in meas {
+            let (c, o) = (&m.sat, &m.out);
+            let Some(s) = sats.get_mut(m.index) else {
                 continue;
             };
             if let Some((el, az)) = o.el_az {
                 s.elevation_deg = Some(el.to_degrees());
                 s.azimuth_deg = Some(crate::frames::azimuth_from_atan2(az.to_degrees(), 360.0));
             }
-            if o.masked {
-                s.status = SatStatus::BelowMask;
-            } else if let Some(nis) = o.gated_nis {
-                s.status = SatStatus::Gated { nis };
-            } else if o.used && result.is_ok() {
-                s.status = SatStatus::Used;
-                s.residual_m = Some(o.residual_m);
-                s.sigma_m = Some(o.sigma_m as f32);
+            match o.fate {
+                Fate::Masked => s.status = SatStatus::BelowMask,
+                Fate::Gated { nis } => s.status = SatStatus::Gated { nis },
+                Fate::Used if result.is_ok() => {
+                    s.status = SatStatus::Used;
+                    s.residual_m = Some(o.residual_m);
+                    s.sigma_m = Some(o.sigma_m as f32);
+                }
+                Fate::Used | Fate::Pending => {}
             }
             let rate_residual = match (snapshot, result) {
                 (true, Ok(fix)) => fix.velocity.and_then(|v| {
@@ -414,12 +401,11 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
     }
 
     /// The velocity from the Doppler of the candidates the fix used.
-    fn velocity(&self, fix: &Fix, cands: &[Candidate], outcomes: &[Outcome]) -> Option<Velocity> {
+    fn velocity(&self, fix: &Fix, meas: &[Measurement]) -> Option<Velocity> {
         let sigma = self.config.snapshot.doppler_sigma_mps;
-        let rows = cands
+        let rows = meas
             .iter()
-            .zip(outcomes)
-            .filter_map(|(c, o)| RateRow::of(c, o, sigma));
+            .filter_map(|m| RateRow::of(&m.sat, &m.out, sigma));
         let frame = LocalFrame::new(fix.ecef_m, &fix.geodetic);
         solve_velocity(rows, &frame)
     }

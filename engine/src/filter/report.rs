@@ -5,7 +5,8 @@ use super::FilterState;
 use crate::corrections::site::Site;
 use crate::linalg::add;
 use crate::linalg::Mat6;
-use crate::snapshot::wls::{dop, enu_block, Candidate, Outcome};
+use crate::measurements::record::Measurement;
+use crate::snapshot::wls::{dop, enu_block};
 use crate::solution::{Dop, Fix, FixKind, FixSource, IonoCorrection, Velocity};
 
 /// What the report needs besides the state.
@@ -18,10 +19,8 @@ pub(crate) struct Report<'a> {
     pub rates_used: u8,
     /// Σ NIS of the applied pseudoranges.
     pub nis_sum: f64,
-    /// The candidates and what the filter did with each (the DOP is that of the applied
-    /// pseudoranges).
-    pub cands: &'a [Candidate],
-    pub out: &'a [Outcome],
+    /// The measurement records (the DOP is that of the applied pseudoranges).
+    pub meas: &'a [Measurement],
     pub iono_applied: bool,
     /// σ of the signal-in-space range error, m (the reported covariance's floor).
     pub ure_sigma_m: f64,
@@ -46,9 +45,9 @@ pub(crate) fn report(r: &Report<'_>) -> Option<Fix> {
     let v = s.velocity();
     let mut geometry: Mat6 = [[0.0; 6]; 6];
     let mut present = [false; 3];
-    for (c, o) in r.cands.iter().zip(r.out).filter(|(_, o)| o.used) {
-        add_geometry(&mut geometry, o.row, c.sys);
-        if let Some(p) = present.get_mut(c.sys) {
+    for m in r.meas.iter().filter(|m| m.out.used()) {
+        add_geometry(&mut geometry, m.out.row, m.sat.sys);
+        if let Some(p) = present.get_mut(m.sat.sys) {
             *p = true;
         }
     }

@@ -34,8 +34,9 @@ use crate::config::Config;
 use crate::corrections::iono::IonoCoefficients;
 use crate::corrections::site::Site;
 use crate::frames::{dot, norm, sub};
+use crate::measurements::record::{Candidate, Fate, Measurement, Outcome};
 use crate::sat::System;
-use crate::snapshot::wls::{sagnac, Candidate, Outcome};
+use crate::snapshot::wls::sagnac;
 use crate::solution::{FilterEvent, Fix, FixSource};
 use crate::time::GnssTime;
 use heapless::Vec;
@@ -74,7 +75,7 @@ pub(crate) enum Step {
     Lost(FilterEvent),
 }
 
-/// Runs one tracked epoch. `out` receives, per candidate, its corrections and what the
+/// Runs one tracked epoch. Each measurement record receives its corrections and what the
 /// filter did with its pseudorange and range rate.
 // Not inlined: its frame and the least-squares one are never on the stack together
 // (docs/firmware.md).
@@ -82,8 +83,7 @@ pub(crate) enum Step {
 pub(crate) fn step(
     tracked: &mut Option<Tracked>,
     ctx: &Context<'_>,
-    cands: &[Candidate],
-    out: &mut [Outcome],
+    meas: &mut [Measurement],
 ) -> Step {
     let Some(tr) = tracked.as_mut() else {
         return Step::Lost(FilterEvent::Started);
@@ -108,22 +108,23 @@ pub(crate) fn step(
 
     let site = Site::new(ctx.cfg, ctx.iono, ctx.tow_s, tr.state.position());
     let mut innovations: Vec<f64, 32> = Vec::new();
-    for (c, o) in cands.iter().zip(out.iter_mut()) {
+    for m in meas.iter_mut() {
+        let (c, o) = (&m.sat, &mut m.out);
         *o = Outcome::default();
         let Some((u, rho)) = line_of_sight(&tr.state, c) else {
-            o.masked = true;
+            o.fate = Fate::Masked;
             continue;
         };
         let k = site.apply(c.sat_input(), u);
         o.el_az = Some(k.el_az);
-        o.masked = k.masked;
+        o.fate = Outcome::corrected(k.masked);
         o.delay_m = k.delay_m;
         o.sigma_m = k.sigma_m;
         o.model_var_m2 = k.model_var_m2;
         o.row = [-u[0], -u[1], -u[2]];
         // The innovation before any clock re-seat; `update_all` subtracts the shift.
         o.residual_m = pseudorange_innovation(&tr.state, c, o, rho);
-        if !o.masked {
+        if !o.masked() {
             let _ = innovations.push(o.residual_m);
         }
     }
@@ -132,14 +133,7 @@ pub(crate) fn step(
         event = FilterEvent::ClockReseated;
     }
     let held = tr.still.held();
-    let tally = update_all(
-        &mut tr.state,
-        cands,
-        out,
-        ctx.cfg,
-        shift,
-        held.then_some(dt),
-    );
+    let tally = update_all(&mut tr.state, meas, ctx.cfg, shift, held.then_some(dt));
     if held && tally.motion {
         tr.still = Stillness::Moving;
         event = FilterEvent::HoldReleased;
@@ -173,8 +167,7 @@ pub(crate) fn step(
         used: tally.applied,
         rates_used: tally.rates,
         nis_sum: tally.nis_sum,
-        cands,
-        out,
+        meas,
         iono_applied: site.iono_applied(),
         ure_sigma_m: f.ure_sigma_m,
         site: &site,
@@ -325,14 +318,13 @@ impl Spread {
 
 /// Gates each unmasked candidate's pseudorange and range rate on its own innovation (χ²(1)
 /// against the prior `S = hᵀPh + R`), applies the rest in one batch (with zero-velocity
-/// rows while held and still), and records in `out` what became of each. `shift` is the
+/// rows while held and still), and records in each measurement what became of it. `shift` is the
 /// clock re-seat already applied to the state, to take from the stored innovations; `held`
 /// is the time since the last epoch, s, when the position is held.
 #[inline(never)]
 fn update_all(
     state: &mut FilterState,
-    cands: &[Candidate],
-    out: &mut [Outcome],
+    meas: &mut [Measurement],
     cfg: &Config,
     shift: f64,
     held: Option<f64>,
@@ -348,7 +340,8 @@ fn update_all(
         nis_sum: 0.0,
         motion: false,
     };
-    for (c, o) in cands.iter().zip(out.iter_mut()).filter(|(_, o)| !o.masked) {
+    for m in meas.iter_mut().filter(|m| !m.out.masked()) {
+        let (c, o) = (&m.sat, &mut m.out);
         let u = [-o.row[0], -o.row[1], -o.row[2]];
         let nu = o.residual_m - shift;
         let r = range_variance(cfg, o);
@@ -360,14 +353,14 @@ fn update_all(
         let nis = nu * nu / state.innovation_variance(&row, r);
         // NaN (a zero S) fails the gate too.
         if nis.is_nan() || nis > gate {
-            o.gated_nis = Some(nis as f32);
+            o.fate = Fate::Gated { nis: nis as f32 };
             t.gated = t.gated.saturating_add(1);
             continue;
         }
         if batch.add_weighted(&row, nu, w).is_err() {
             continue;
         }
-        o.used = true;
+        o.fate = Fate::Used;
         o.residual_m = nu;
         t.applied = t.applied.saturating_add(1);
         let Some(rate) = c.range_rate_mps else {
@@ -400,9 +393,11 @@ fn update_all(
     match state.apply(&batch) {
         Ok(nis) => t.nis_sum = nis,
         Err(_) => {
-            for o in out.iter_mut() {
-                o.used = false;
-                o.rate_innovation_mps = None;
+            for m in meas.iter_mut() {
+                if m.out.used() {
+                    m.out.fate = Fate::Pending;
+                }
+                m.out.rate_innovation_mps = None;
             }
             t.applied = 0;
             t.rates = 0;

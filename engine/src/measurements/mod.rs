@@ -1,3 +1,4 @@
-//! Measurements as the receiver reports them.
+//! Measurements as the receiver reports them, and the record each screened one becomes.
 
 pub mod observation;
+pub(crate) mod record;

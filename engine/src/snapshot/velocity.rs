@@ -13,7 +13,8 @@
 
 use crate::frames::{dot, LocalFrame};
 use crate::linalg::{add, Cholesky, Mat};
-use crate::snapshot::wls::{enu_block, Candidate, Outcome};
+use crate::measurements::record::{Candidate, Outcome};
+use crate::snapshot::wls::enu_block;
 use crate::solution::Velocity;
 
 /// One satellite's range rate, ready for the velocity solution.
@@ -32,7 +33,7 @@ impl RateRow {
     /// The row of a candidate the position solution used and whose Doppler is usable;
     /// `sigma_mps` is the Doppler σ at the reference C/N0.
     pub fn of(c: &Candidate, o: &Outcome, sigma_mps: f64) -> Option<RateRow> {
-        let rate = c.range_rate_mps.filter(|_| o.used)?;
+        let rate = c.range_rate_mps.filter(|_| o.used())?;
         let los = [-o.row[0], -o.row[1], -o.row[2]];
         Some(RateRow {
             los,

@@ -18,81 +18,16 @@
 
 use crate::config::Config;
 use crate::corrections::iono::IonoCoefficients;
-use crate::corrections::site::{SatInput, Site};
+use crate::corrections::site::Site;
 use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
 use crate::linalg::{add, Cholesky6, Mat, Mat6};
-use crate::sat::{System, SPEED_OF_LIGHT};
+use crate::measurements::record::{Fate, Measurement, Outcome};
+use crate::sat::SPEED_OF_LIGHT;
 use crate::solution::{Dop, Fix, FixKind, FixSource, IonoCorrection, NoFixReason};
 use libm::sqrt;
 
 /// The shortest range to a navigation satellite from the ground, m (MEO at zenith).
 const MIN_RANGE_M: f64 = 1.9e7;
-
-/// A satellite ready for the solution: its state at transmit time and its measurement.
-#[derive(Clone, Copy, Debug)]
-pub(crate) struct Candidate {
-    /// Satellite ECEF position at transmit time, m.
-    pub pos: [f64; 3],
-    /// Satellite clock offset including relativity and group delay, metres.
-    pub clock_m: f64,
-    /// Pseudorange, m.
-    pub pr_m: f64,
-    /// Index of the system's clock state (0, 1, 2).
-    pub sys: usize,
-    /// Multiplier of σ from C/N0 (≥ 1).
-    pub cn0_factor: f32,
-    /// Ionospheric scale from L1 to this signal's frequency.
-    pub iono_scale: f32,
-    /// Satellite ECEF velocity at transmit time, m/s.
-    pub vel: [f64; 3],
-    /// Satellite clock drift, m/s.
-    pub clock_drift_mps: f64,
-    /// Measured range rate −λ·D, m/s, when a plausible Doppler was reported.
-    pub range_rate_mps: Option<f64>,
-}
-
-impl Candidate {
-    /// What the corrections need of this satellite.
-    pub fn sat_input(&self) -> SatInput {
-        SatInput {
-            iono_scale: self.iono_scale,
-            cn0_factor: self.cn0_factor,
-        }
-    }
-
-    /// Earth rotation rate of the satellite's system, rad/s (for the Sagnac rotation).
-    pub fn omega_e(&self) -> f64 {
-        System::ALL
-            .get(self.sys)
-            .map_or(crate::sat::GPS_CONSTANTS.omega_e, |s| s.constants().omega_e)
-    }
-}
-
-/// What the solution made of one candidate.
-#[derive(Clone, Copy, Debug, Default)]
-pub(crate) struct Outcome {
-    /// Used in the final iteration.
-    pub used: bool,
-    /// Below the elevation mask at the final position.
-    pub masked: bool,
-    /// Elevation and azimuth, rad, once corrections were on.
-    pub el_az: Option<(f32, f32)>,
-    /// Post-fit residual, m.
-    pub residual_m: f64,
-    /// σ given, m.
-    pub sigma_m: f64,
-    /// Variance left by the atmosphere models, m² (see `SatCorrection::model_var_m2`).
-    pub model_var_m2: f64,
-    /// Ionosphere and troposphere delay applied, m.
-    pub delay_m: f64,
-    /// Partial derivatives row (−unit line of sight), kept for the post-fit residual and
-    /// the velocity solution.
-    pub row: [f64; 3],
-    /// The navigation filter's innovation test refused the pseudorange: its NIS.
-    pub gated_nis: Option<f32>,
-    /// The navigation filter applied the range rate: its innovation, m/s.
-    pub rate_innovation_mps: Option<f32>,
-}
 
 /// Inputs of one solution besides the candidates.
 pub(crate) struct Setup<'a> {
@@ -106,15 +41,12 @@ pub(crate) struct Setup<'a> {
     pub hold_height_m: Option<f64>,
 }
 
-/// Iterates the weighted least squares. `out` receives one [`Outcome`] per candidate.
+/// Iterates the weighted least squares over the measurement records, writing into each its
+/// corrections, whether it was used and its post-fit residual.
 // Not inlined: its frame (the normal matrices) is off the stack while the velocity is
 // solved and while the filter runs.
 #[inline(never)]
-pub(crate) fn solve(
-    cands: &[Candidate],
-    setup: &Setup<'_>,
-    out: &mut [Outcome],
-) -> Result<Fix, NoFixReason> {
+pub(crate) fn solve(meas: &mut [Measurement], setup: &Setup<'_>) -> Result<Fix, NoFixReason> {
     let cfg = setup.config;
     let mut pos = setup.seed;
     let mut clk = [0.0f64; 3];
@@ -137,8 +69,11 @@ pub(crate) fn solve(
         let mut rhs = [0.0f64; 6];
         let mut present = [false; 3];
         let mut used = 0u8;
-        for (c, o) in cands.iter().zip(out.iter_mut()) {
-            o.used = false;
+        for m in meas.iter_mut() {
+            let (c, o) = (&m.sat, &mut m.out);
+            if o.used() {
+                o.fate = Fate::Pending;
+            }
             let sat = sagnac(c.pos, pos, c.omega_e());
             let los = sub(sat, pos);
             let rho = norm(los);
@@ -149,7 +84,7 @@ pub(crate) fn solve(
             if let (true, Some(site)) = (refresh, &site) {
                 let k = site.apply(c.sat_input(), u);
                 o.el_az = Some(k.el_az);
-                o.masked = k.masked;
+                o.fate = Outcome::corrected(k.masked);
                 o.delay_m = k.delay_m;
                 o.sigma_m = k.sigma_m;
                 o.model_var_m2 = k.model_var_m2;
@@ -157,7 +92,7 @@ pub(crate) fn solve(
                 o.delay_m = 0.0;
                 o.sigma_m = 1.0;
             }
-            if o.masked {
+            if o.masked() {
                 continue;
             }
             let clock = clk.get(c.sys).copied().unwrap_or(0.0);
@@ -179,7 +114,7 @@ pub(crate) fn solve(
                 *p = true;
             }
             used = used.saturating_add(1);
-            o.used = true;
+            o.fate = Fate::Used;
             o.residual_m = v;
             o.row = [-u[0], -u[1], -u[2]];
         }
@@ -255,8 +190,7 @@ pub(crate) fn solve(
                     dclk: [d[3], d[4], d[5]],
                     cfg,
                 },
-                cands,
-                out,
+                meas,
             );
         }
         if !corrections_on && step < 1_000.0 && norm(pos) > 5.0e6 {
@@ -283,11 +217,7 @@ struct FinishInput<'a> {
     cfg: &'a Config,
 }
 
-fn finish(
-    f: &FinishInput<'_>,
-    cands: &[Candidate],
-    out: &mut [Outcome],
-) -> Result<Fix, NoFixReason> {
+fn finish(f: &FinishInput<'_>, meas: &mut [Measurement]) -> Result<Fix, NoFixReason> {
     let geodetic = Geodetic::from_ecef(f.pos);
     if !(f.cfg.snapshot.height_span_m.0..=f.cfg.snapshot.height_span_m.1)
         .contains(&geodetic.height_m)
@@ -296,8 +226,9 @@ fn finish(
     }
     let frame = LocalFrame::new(f.pos, &geodetic);
     let mut sse = 0.0;
-    for (c, o) in cands.iter().zip(out.iter_mut()) {
-        if o.used {
+    for m in meas.iter_mut() {
+        let (c, o) = (&m.sat, &mut m.out);
+        if o.used() {
             // Post-fit residual: the last update moved the state by (dpos, dclk).
             let dclk = f.dclk.get(c.sys).copied().unwrap_or(0.0);
             o.residual_m -= dot(o.row, f.dpos) + dclk;

@@ -1,0 +1,120 @@
+//! One record per measurement, carried through the stages in data-flow order: screening
+//! fills [`Measurement::sat`] (the satellite's state at transmit time and the measurement,
+//! fixed from then on), the corrections and the solution — least squares or filter — fill
+//! [`Measurement::out`] (corrections, σ, what became of the pseudorange and the range rate),
+//! and the engine writes the observation's [`crate::SatUse`] from both.
+
+use crate::corrections::site::SatInput;
+use crate::sat::System;
+
+/// A screened observation: its index in the epoch, its satellite, what the stages made of it.
+#[derive(Clone, Copy, Debug)]
+pub(crate) struct Measurement {
+    /// Index of the observation in the epoch (and of its `SatUse` in the solution).
+    pub index: usize,
+    /// The satellite's state at transmit time and the measurement.
+    pub sat: Candidate,
+    /// What the corrections and the solution made of it.
+    pub out: Outcome,
+}
+
+/// A satellite ready for the solution: its state at transmit time and its measurement.
+#[derive(Clone, Copy, Debug)]
+pub(crate) struct Candidate {
+    /// Satellite ECEF position at transmit time, m.
+    pub pos: [f64; 3],
+    /// Satellite clock offset including relativity and group delay, metres.
+    pub clock_m: f64,
+    /// Pseudorange, m.
+    pub pr_m: f64,
+    /// Index of the system's clock state (0, 1, 2).
+    pub sys: usize,
+    /// Multiplier of σ from C/N0 (≥ 1).
+    pub cn0_factor: f32,
+    /// Ionospheric scale from L1 to this signal's frequency.
+    pub iono_scale: f32,
+    /// Satellite ECEF velocity at transmit time, m/s.
+    pub vel: [f64; 3],
+    /// Satellite clock drift, m/s.
+    pub clock_drift_mps: f64,
+    /// Measured range rate −λ·D, m/s, when a plausible Doppler was reported.
+    pub range_rate_mps: Option<f64>,
+}
+
+impl Candidate {
+    /// What the corrections need of this satellite.
+    pub fn sat_input(&self) -> SatInput {
+        SatInput {
+            iono_scale: self.iono_scale,
+            cn0_factor: self.cn0_factor,
+        }
+    }
+
+    /// Earth rotation rate of the satellite's system, rad/s (for the Sagnac rotation).
+    pub fn omega_e(&self) -> f64 {
+        System::ALL
+            .get(self.sys)
+            .map_or(crate::sat::GPS_CONSTANTS.omega_e, |s| s.constants().omega_e)
+    }
+}
+
+/// What became of a measurement's pseudorange. The innovation statistic of a refused one
+/// lives in its variant, so the two cannot disagree.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+pub(crate) enum Fate {
+    /// Not (yet) used: before the corrections, or not among the final iteration's.
+    #[default]
+    Pending,
+    /// Below the elevation mask at the position the corrections were computed at.
+    Masked,
+    /// Used by the least squares' final iteration, or applied by the filter.
+    Used,
+    /// Refused by the filter's innovation test.
+    Gated {
+        /// Its normalised innovation squared.
+        nis: f32,
+    },
+}
+
+/// What the corrections and the solution made of one measurement.
+#[derive(Clone, Copy, Debug, Default)]
+pub(crate) struct Outcome {
+    /// What became of the pseudorange.
+    pub fate: Fate,
+    /// Elevation and azimuth, rad, once corrections were on.
+    pub el_az: Option<(f32, f32)>,
+    /// Post-fit residual, m.
+    pub residual_m: f64,
+    /// σ given, m.
+    pub sigma_m: f64,
+    /// Variance left by the atmosphere models, m² (see `SatCorrection::model_var_m2`).
+    pub model_var_m2: f64,
+    /// Ionosphere and troposphere delay applied, m.
+    pub delay_m: f64,
+    /// Partial derivatives row (−unit line of sight), kept for the post-fit residual and
+    /// the velocity solution.
+    pub row: [f64; 3],
+    /// The navigation filter applied the range rate: its innovation, m/s.
+    pub rate_innovation_mps: Option<f32>,
+}
+
+impl Outcome {
+    /// Used in the solution.
+    pub fn used(&self) -> bool {
+        self.fate == Fate::Used
+    }
+
+    /// Below the elevation mask.
+    pub fn masked(&self) -> bool {
+        self.fate == Fate::Masked
+    }
+
+    /// The fate the corrections give: masked or still to be solved.
+    pub fn corrected(masked: bool) -> Fate {
+        if masked {
+            Fate::Masked
+        } else {
+            Fate::Pending
+        }
+    }
+}
