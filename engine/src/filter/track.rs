@@ -116,11 +116,7 @@ pub(crate) fn step(
             continue;
         };
         let k = site.apply(c.sat_input(), u);
-        o.el_az = Some(k.el_az);
-        o.fate = Outcome::corrected(k.masked);
-        o.delay_m = k.delay_m;
-        o.sigma_m = k.sigma_m;
-        o.model_var_m2 = k.model_var_m2;
+        o.correct(&k);
         o.row = [-u[0], -u[1], -u[2]];
         // The innovation before any clock re-seat; `update_all` subtracts the shift.
         o.residual_m = pseudorange_innovation(&tr.state, c, o, rho);

@@ -4,7 +4,7 @@
 //! [`Measurement::out`] (corrections, σ, what became of the pseudorange and the range rate),
 //! and the engine writes the observation's [`crate::SatUse`] from both.
 
-use crate::corrections::site::SatInput;
+use crate::corrections::site::{SatCorrection, SatInput};
 use crate::sat::System;
 
 /// A screened observation: its index in the epoch, its satellite, what the stages made of it.
@@ -109,12 +109,17 @@ impl Outcome {
         self.fate == Fate::Masked
     }
 
-    /// The fate the corrections give: masked or still to be solved.
-    pub fn corrected(masked: bool) -> Fate {
-        if masked {
+    /// Takes the corrections of the satellite: elevation and azimuth, the mask (masked, or
+    /// still to be solved), delay, σ and the atmosphere models' residual variance.
+    pub fn correct(&mut self, k: &SatCorrection) {
+        self.el_az = Some(k.el_az);
+        self.fate = if k.masked {
             Fate::Masked
         } else {
             Fate::Pending
-        }
+        };
+        self.delay_m = k.delay_m;
+        self.sigma_m = k.sigma_m;
+        self.model_var_m2 = k.model_var_m2;
     }
 }

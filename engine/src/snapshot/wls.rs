@@ -21,7 +21,7 @@ use crate::corrections::iono::IonoCoefficients;
 use crate::corrections::site::Site;
 use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
 use crate::linalg::{add, Cholesky6, Mat, Mat6};
-use crate::measurements::record::{Fate, Measurement, Outcome};
+use crate::measurements::record::{Fate, Measurement};
 use crate::sat::SPEED_OF_LIGHT;
 use crate::solution::{Dop, Fix, FixKind, FixSource, IonoCorrection, NoFixReason};
 use libm::sqrt;
@@ -83,11 +83,7 @@ pub(crate) fn solve(meas: &mut [Measurement], setup: &Setup<'_>) -> Result<Fix, 
             let u = [los[0] / rho, los[1] / rho, los[2] / rho];
             if let (true, Some(site)) = (refresh, &site) {
                 let k = site.apply(c.sat_input(), u);
-                o.el_az = Some(k.el_az);
-                o.fate = Outcome::corrected(k.masked);
-                o.delay_m = k.delay_m;
-                o.sigma_m = k.sigma_m;
-                o.model_var_m2 = k.model_var_m2;
+                o.correct(&k);
             } else if !corrections_on {
                 o.delay_m = 0.0;
                 o.sigma_m = 1.0;
