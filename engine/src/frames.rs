@@ -2,7 +2,8 @@
 //!
 //! Constants from NGA TR8350.2 (WGS-84): a = 6,378,137 m, 1/f = 298.257223563.
 
-use libm::{atan2, cos, sin, sqrt};
+use crate::trig::sin_cos;
+use libm::{atan2, sqrt};
 
 /// WGS-84 semi-major axis, metres.
 pub const WGS84_A: f64 = 6_378_137.0;
@@ -45,8 +46,8 @@ impl Geodetic {
 
     /// The ECEF position of this point.
     pub fn to_ecef(&self) -> [f64; 3] {
-        let (sl, cl) = (sin(self.lat_rad), cos(self.lat_rad));
-        let (so, co) = (sin(self.lon_rad), cos(self.lon_rad));
+        let (sl, cl) = sin_cos(self.lat_rad);
+        let (so, co) = sin_cos(self.lon_rad);
         let n = WGS84_A / sqrt(1.0 - WGS84_E2 * sl * sl);
         [
             (n + self.height_m) * cl * co,
@@ -95,14 +96,14 @@ impl Geodetic {
         let rho = sqrt(x * x + y * y);
         let lon = atan2(y, x);
         let theta = atan2(z * WGS84_A, rho * WGS84_B);
-        let (st, ct) = (sin(theta), cos(theta));
+        let (st, ct) = sin_cos(theta);
         let mut lat = atan2(
             z + WGS84_EP2 * WGS84_B * st * st * st,
             rho - WGS84_E2 * WGS84_A * ct * ct * ct,
         );
         let mut height = 0.0;
         for _ in 0..3 {
-            let (sl, cl) = (sin(lat), cos(lat));
+            let (sl, cl) = sin_cos(lat);
             let w = sqrt(1.0 - WGS84_E2 * sl * sl);
             let n = WGS84_A / w;
             // Valid at the poles too (no division by cos φ).
@@ -135,8 +136,8 @@ impl LocalFrame {
     /// The frame at `origin`, oriented by the geodetic latitude/longitude `at`.
     #[inline(never)]
     pub fn new(origin: [f64; 3], at: &Geodetic) -> Self {
-        let (sl, cl) = (sin(at.lat_rad), cos(at.lat_rad));
-        let (so, co) = (sin(at.lon_rad), cos(at.lon_rad));
+        let (sl, cl) = sin_cos(at.lat_rad);
+        let (so, co) = sin_cos(at.lon_rad);
         LocalFrame {
             origin,
             axes: [

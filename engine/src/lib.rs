@@ -36,6 +36,7 @@ pub mod linalg;
 pub mod sat;
 pub mod solution;
 pub mod time;
+pub(crate) mod trig;
 pub mod wire;
 
 // The stages (data flow: measurements → nav → corrections → snapshot) and `engine`, the

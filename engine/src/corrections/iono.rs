@@ -3,7 +3,7 @@
 //! Cost: 1 cos, 1 sin-free polynomial pair, a handful of multiplies per satellite.
 
 use crate::sat::SPEED_OF_LIGHT;
-use libm::cos;
+use crate::trig::{cos, sin};
 
 /// The eight broadcast ionosphere coefficients (GPS LNAV subframe 4 page 18, or the
 /// `GPSA`/`GPSB` lines of a RINEX navigation header).
@@ -43,7 +43,7 @@ impl IonoCoefficients {
             &c,
             lat_rad,
             lon_rad,
-            libm::sin(az_rad),
+            sin(az_rad),
             cos(az_rad),
             el_rad,
             tow_s,
@@ -95,7 +95,7 @@ impl Real for f64 {
         self
     }
     fn cos(self) -> Self {
-        libm::cos(self)
+        cos(self)
     }
     fn abs(self) -> Self {
         libm::fabs(self)

@@ -84,7 +84,7 @@ impl<'a> Site<'a> {
             geo,
             frame,
             zenith,
-            sin_mask: libm::sin(cfg.snapshot.elevation_mask_deg.to_radians()),
+            sin_mask: crate::trig::sin(cfg.snapshot.elevation_mask_deg.to_radians()),
         }
     }
 

@@ -4,7 +4,8 @@
 //!
 //! Cost per satellite: one sqrt; the zenith delays are computed once per epoch.
 
-use libm::{cos, sqrt};
+use crate::trig::cos;
+use libm::sqrt;
 
 /// Zenith hydrostatic and wet delays at the receiver, metres.
 #[derive(Clone, Copy, Debug, PartialEq)]

@@ -11,7 +11,8 @@
 
 use crate::sat::{OrbitConstants, SatId, Signal, System};
 use crate::time::{wrap_half_week, GnssTime, TimeError};
-use libm::{cos, sin, sqrt};
+use crate::trig::sin_cos;
+use libm::sqrt;
 
 /// One broadcast ephemeris and clock set, in the symbols of IS-GPS-200.
 ///
@@ -315,7 +316,7 @@ impl BroadcastEphemeris {
         let sq1me2 = sqrt(1.0 - self.e * self.e);
         // True anomaly ν through its sine and cosine (IS-GPS-200 Table 20-IV).
         let (snu, cnu) = (sq1me2 * se / one_minus_ecos, (ce - self.e) / one_minus_ecos);
-        let (sw, cw) = (sin(self.omega), cos(self.omega));
+        let (sw, cw) = sin_cos(self.omega);
         // Φ = ν + ω, and 2Φ by the double-angle identities.
         let (sp, cp) = (snu * cw + cnu * sw, cnu * cw - snu * sw);
         let (s2, c2) = (2.0 * sp * cp, cp * cp - sp * sp);
@@ -327,7 +328,7 @@ impl BroadcastEphemeris {
         let (su, cu) = (sp * cdu + cp * sdu, cp * cdu - sp * sdu);
         let r = a * one_minus_ecos + dr;
         let i = self.i0 + di + self.idot * tk;
-        let (si, ci) = (sin(i), cos(i));
+        let (si, ci) = sin_cos(i);
         let xp = r * cu;
         let yp = r * su;
 
@@ -353,7 +354,7 @@ impl BroadcastEphemeris {
                 self.omega_dot - c.omega_e,
             )
         };
-        let (so, co) = (sin(omega_k), cos(omega_k));
+        let (so, co) = sin_cos(omega_k);
         let pos = [xp * co - yp * ci * so, xp * so + yp * ci * co, yp * si];
         let vel = [
             xp_dot * co - yp_dot * ci * so + yp * si * so * i_dot - pos[1] * omega_k_dot,
@@ -405,14 +406,15 @@ fn system_time(system: System, week: u32, tow_s: f64) -> Result<GnssTime, TimeEr
 /// ≤ 7 for e < 0.3). sin E and cos E are carried along by the angle-addition formulas, with
 /// the series of [`small_sin_cos`] for small steps, so a GPS orbit needs only sin M and cos M.
 fn solve_kepler(m: f64, e: f64) -> (f64, f64, f64) {
-    let (mut ek, mut se, mut ce) = (m, sin(m), cos(m));
+    let (sm, cm) = sin_cos(m);
+    let (mut ek, mut se, mut ce) = (m, sm, cm);
     for _ in 0..10 {
         let d = (m - ek + e * se) / (1.0 - e * ce);
         ek += d;
         let (sd, cd) = if d.abs() < 0.02 {
             small_sin_cos(d)
         } else {
-            (sin(d), cos(d))
+            sin_cos(d)
         };
         (se, ce) = (se * cd + ce * sd, ce * cd - se * sd);
         if d.abs() < 1e-14 {
@@ -427,7 +429,7 @@ fn beidou_geo_rotation(p: [f64; 3], v: [f64; 3], omega_e: f64, tk: f64) -> ([f64
     // sin(−5°), cos(−5°).
     let (sx, cx) = (-0.087_155_742_747_658_17, 0.996_194_698_091_745_5);
     let rx = |a: [f64; 3]| [a[0], cx * a[1] + sx * a[2], -sx * a[1] + cx * a[2]];
-    let (sz, cz) = (sin(omega_e * tk), cos(omega_e * tk));
+    let (sz, cz) = sin_cos(omega_e * tk);
     let rz = |a: [f64; 3]| [cz * a[0] + sz * a[1], -sz * a[0] + cz * a[1], a[2]];
     let pg = rx(p);
     let vg = rx(v);
