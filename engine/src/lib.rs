@@ -44,6 +44,7 @@ pub mod wire;
 pub mod corrections;
 pub mod engine;
 pub mod filter;
+pub mod integrity;
 pub mod measurements;
 pub mod nav;
 pub mod snapshot;
