@@ -19,7 +19,7 @@
 pub const MAX_DOF: u32 = 100_000;
 
 /// `ln Γ(k/2)` for a positive integer `k`, exact up to rounding.
-fn ln_gamma_half(k: u32) -> f64 {
+pub(crate) fn ln_gamma_half(k: u32) -> f64 {
     // Γ(1/2) = √π, Γ(1) = 1; Γ(a + 1) = a Γ(a).
     let (mut a, mut acc) = if k % 2 == 1 {
         (0.5, 0.5 * libm::log(core::f64::consts::PI))
@@ -34,52 +34,75 @@ fn ln_gamma_half(k: u32) -> f64 {
     acc
 }
 
+/// The regularised lower incomplete gamma function `P(a, y)` by its series, given
+/// `ln Γ(a)` (for `y < a + 1`, where the series converges fast).
+fn lower_series(a: f64, y: f64, ln_gamma_a: f64) -> f64 {
+    let (mut term, mut sum, mut ap) = (1.0 / a, 1.0 / a, a);
+    for _ in 0..10_000 {
+        ap += 1.0;
+        term *= y / ap;
+        sum += term;
+        if term.abs() < sum.abs() * 1e-17 {
+            break;
+        }
+    }
+    libm::exp(a * libm::log(y) - y - ln_gamma_a) * sum
+}
+
+/// The lower-tail probability of χ²(k) at `x > 0` (scipy's `chi2.cdf`).
+pub fn cdf(k: u32, x: f64) -> f64 {
+    cdf_given(k, x, ln_gamma_half(k))
+}
+
+/// [`cdf`] with `ln Γ(k/2)` supplied: callers stepping through `k` update it by the
+/// recurrence `ln Γ(a + 1) = ln Γ(a) + ln a` instead of summing it again.
+pub(crate) fn cdf_given(k: u32, x: f64, ln_gamma: f64) -> f64 {
+    let (a, y) = (f64::from(k) / 2.0, x / 2.0);
+    if y < a + 1.0 {
+        lower_series(a, y, ln_gamma)
+    } else {
+        1.0 - libm::exp(upper_fraction(a, y, ln_gamma))
+    }
+}
+
 /// `ln Q(k, x)`, the log of the upper-tail probability of χ²(k) at `x > 0`.
 fn ln_upper_tail(k: u32, x: f64) -> f64 {
-    let a = f64::from(k) / 2.0;
-    let y = x / 2.0;
-    let ln_prefactor = a * libm::log(y) - y - ln_gamma_half(k);
+    let (a, y) = (f64::from(k) / 2.0, x / 2.0);
     if y < a + 1.0 {
-        // Series for the lower tail P: Σ yⁿ / (a (a+1) … (a+n)).
-        let (mut term, mut sum, mut ap) = (1.0 / a, 1.0 / a, a);
-        for _ in 0..10_000 {
-            ap += 1.0;
-            term *= y / ap;
-            sum += term;
-            if term.abs() < sum.abs() * 1e-17 {
-                break;
-            }
-        }
-        let p = libm::exp(ln_prefactor) * sum;
+        let p = lower_series(a, y, ln_gamma_half(k));
         libm::log((1.0 - p).max(f64::MIN_POSITIVE))
     } else {
-        // Continued fraction for Q (modified Lentz).
-        let tiny = 1e-300;
-        let mut b = y + 1.0 - a;
-        let mut c = 1.0 / tiny;
-        let mut d = 1.0 / b;
-        let mut h = d;
-        for i in 1..10_000 {
-            let fi = f64::from(i);
-            let an = -fi * (fi - a);
-            b += 2.0;
-            d = an * d + b;
-            if d.abs() < tiny {
-                d = tiny;
-            }
-            c = b + an / c;
-            if c.abs() < tiny {
-                c = tiny;
-            }
-            d = 1.0 / d;
-            let delta = d * c;
-            h *= delta;
-            if (delta - 1.0).abs() < 1e-16 {
-                break;
-            }
-        }
-        ln_prefactor + libm::log(h)
+        upper_fraction(a, y, ln_gamma_half(k))
     }
+}
+
+/// `ln Q(a, y)` by its continued fraction (modified Lentz), for `y ≥ a + 1`.
+fn upper_fraction(a: f64, y: f64, ln_gamma_a: f64) -> f64 {
+    let tiny = 1e-300;
+    let mut b = y + 1.0 - a;
+    let mut c = 1.0 / tiny;
+    let mut d = 1.0 / b;
+    let mut h = d;
+    for i in 1..10_000 {
+        let fi = f64::from(i);
+        let an = -fi * (fi - a);
+        b += 2.0;
+        d = an * d + b;
+        if d.abs() < tiny {
+            d = tiny;
+        }
+        c = b + an / c;
+        if c.abs() < tiny {
+            c = tiny;
+        }
+        d = 1.0 / d;
+        let delta = d * c;
+        h *= delta;
+        if (delta - 1.0).abs() < 1e-16 {
+            break;
+        }
+    }
+    a * libm::log(y) - y - ln_gamma_a + libm::log(h)
 }
 
 /// The density of χ²(k) at `x`, as its logarithm.

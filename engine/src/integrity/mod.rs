@@ -2,6 +2,9 @@
 //! `engine.rs`**: the residual and innovation tests, protection levels and the integrity
 //! state of each fix are to come (docs/integrity.md).
 //!
-//! - [`chi2`]: χ² quantiles for any degree of freedom and false-alarm probability.
+//! - [`chi2`]: χ² quantiles for any degree of freedom and false-alarm probability;
+//! - [`ncx2`]: the non-centrality a fault must reach to be detected with a given
+//!   probability (the "pbias" of slope-based protection levels).
 
 pub mod chi2;
+pub mod ncx2;

@@ -405,6 +405,7 @@ fn vectors(r: &mut Runner, write: bool) {
         ("gen_times.py", "times_astropy.csv"),
         ("gen_models.py", "models_reference.csv"),
         ("gen_chi2.py", "chi2_scipy.csv"),
+        ("gen_ncx2.py", "ncx2_scipy.csv"),
         ("gen_filter.py", "filter_filterpy.csv"),
     ] {
         println!("\nxtask: == regenerate {file}");
