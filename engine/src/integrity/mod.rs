@@ -4,7 +4,9 @@
 //!
 //! - [`chi2`]: χ² quantiles for any degree of freedom and false-alarm probability;
 //! - [`ncx2`]: the non-centrality a fault must reach to be detected with a given
-//!   probability (the "pbias" of slope-based protection levels).
+//!   probability (the "pbias" of slope-based protection levels);
+//! - [`slope`]: each satellite's slope in the weighted least-squares residual test.
 
 pub mod chi2;
 pub mod ncx2;
+pub mod slope;

@@ -406,6 +406,7 @@ fn vectors(r: &mut Runner, write: bool) {
         ("gen_models.py", "models_reference.csv"),
         ("gen_chi2.py", "chi2_scipy.csv"),
         ("gen_ncx2.py", "ncx2_scipy.csv"),
+        ("gen_slopes.py", "slopes_numpy.csv"),
         ("gen_filter.py", "filter_filterpy.csv"),
     ] {
         println!("\nxtask: == regenerate {file}");
