@@ -31,7 +31,7 @@ rng = random.Random(20261202)
 out = sys.stdout
 out.write(f"# generator: tools/refvectors/gen_slopes.py; library: numpy {version('numpy')}\n")
 out.write("# command: cargo xtask vectors (python3 tools/refvectors/gen_slopes.py > tools/refvectors/slopes_numpy.csv)\n")
-out.write("# case,satellite,e,n,u,system,weight,slope_h,slope_v\n")
+out.write("# case,satellite,e,n,u,system,weight,slope_h,slope_v,residual,sse,sse_without,shift_e,shift_n,shift_u\n")
 for case in range(40):
     n = rng.randint(5, 12)
     systems = [rng.randrange(3) if case % 3 else 0 for _ in range(n)]
@@ -53,7 +53,25 @@ for case in range(40):
     W = np.diag(weights)
     A = np.linalg.inv(G.T @ W @ G) @ G.T @ W
     P = G @ A
+    # Measurements: a truth plus noise of each sigma; the full solution and its residuals.
+    x_true = np.array([rng.uniform(-5, 5) for _ in range(G.shape[1])])
+    z = G @ x_true + np.array([rng.gauss(0.0, 1.0) / math.sqrt(w) for w in weights])
+    x_hat = A @ z
+    v = z - G @ x_hat
+    sse = float(sum(weights[i] * v[i] ** 2 for i in range(n)))
     for i in range(n):
+        # Leave-one-out by an explicit re-solve (nan where removing it leaves a clock
+        # without a satellite).
+        keep = [j for j in range(n) if j != i]
+        Gk, Wk, zk = G[keep], np.diag([weights[j] for j in keep]), z[keep]
+        cols = [c for c in range(G.shape[1]) if np.any(Gk[:, c] != 0.0)]
+        if len(cols) < G.shape[1] or len(keep) < len(cols):
+            sse_wo, shift = math.nan, [math.nan] * 3
+        else:
+            xk = np.linalg.solve(Gk.T @ Wk @ Gk, Gk.T @ Wk @ zk)
+            vk = zk - Gk @ xk
+            sse_wo = float(vk @ Wk @ vk)
+            shift = [float(xk[c] - x_hat[c]) for c in range(3)]
         d = weights[i] * (1.0 - P[i, i])
         if 1.0 - P[i, i] < 1e-9:
             # Its residual is always zero (the only satellite of its system): a bias on it
@@ -63,4 +81,7 @@ for case in range(40):
             sh = math.sqrt((A[0, i] ** 2 + A[1, i] ** 2) / d)
             sv = abs(A[2, i]) / math.sqrt(d)
         e, nn, u = rows[i]
-        out.write(f"{case},{i},{e!r},{nn!r},{u!r},{systems[i]},{weights[i]!r},{float(sh)!r},{float(sv)!r}\n")
+        out.write(
+            f"{case},{i},{e!r},{nn!r},{u!r},{systems[i]},{weights[i]!r},{float(sh)!r},{float(sv)!r},"
+            f"{float(v[i])!r},{sse!r},{sse_wo!r},{shift[0]!r},{shift[1]!r},{shift[2]!r}\n"
+        )

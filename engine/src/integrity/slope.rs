@@ -28,13 +28,19 @@ pub struct SlopeRow {
     pub weight: f64,
 }
 
-/// One satellite's slopes, metres of position error per unit √λ.
+/// One satellite's slopes, metres of position error per unit √λ, with the figures the
+/// residual test's identification and exclusion need.
 #[derive(Clone, Copy, Debug, Default, PartialEq)]
 pub struct Slope {
     /// Horizontal.
     pub horizontal: f64,
     /// Vertical.
     pub vertical: f64,
+    /// Its redundancy `1 − P_ii`: the share of a bias on it that reaches its own residual.
+    pub redundancy: f64,
+    /// Column i of `A = N⁻¹GᵀW` for east, north and up: the position change per metre of
+    /// its measurement.
+    pub gain_enu: [f64; 3],
 }
 
 /// Why no slopes could be computed.
@@ -108,17 +114,21 @@ pub fn slopes(rows: &[SlopeRow], out: &mut [Slope]) -> Result<(), SlopeError> {
         }
         let p_ii: f64 = v.iter().zip(&a).map(|(x, y)| x * y).sum();
         let [ae, an, au, ..] = a;
-        *s = if 1.0 - p_ii < 1e-9 {
-            Slope {
-                horizontal: f64::INFINITY,
-                vertical: f64::INFINITY,
-            }
+        let redundancy = (1.0 - p_ii).max(0.0);
+        let (horizontal, vertical) = if redundancy < 1e-9 {
+            (f64::INFINITY, f64::INFINITY)
         } else {
-            let d = r.weight * (1.0 - p_ii);
-            Slope {
-                horizontal: libm::sqrt((ae * ae + an * an) / d),
-                vertical: au.abs() / libm::sqrt(d),
-            }
+            let d = r.weight * redundancy;
+            (
+                libm::sqrt((ae * ae + an * an) / d),
+                au.abs() / libm::sqrt(d),
+            )
+        };
+        *s = Slope {
+            horizontal,
+            vertical,
+            redundancy,
+            gain_enu: [ae, an, au],
         };
     }
     Ok(())
