@@ -225,15 +225,17 @@ fn run_scenario(row: &ScenarioRow) -> RowResult {
 }
 
 fn run_dataset(row: &DatasetRow) -> RowResult {
-    let run = |cfg: Config| match data_dir() {
+    // The folder is looked up, and a missing one reported, once for both runs.
+    let dir = data_dir();
+    if dir.is_none() && !required() {
+        report_skip(&format!("manifest row {}", row.name));
+    }
+    let run = |cfg: Config| match &dir {
         None if required() => RowOutcome::Error(format!(
             "recorded data folder not found and {REQUIRE_VAR} is set"
         )),
-        None => {
-            report_skip(&format!("manifest row {}", row.name));
-            RowOutcome::Skipped
-        }
-        Some(dir) => summarise(row.records_with(&dir, cfg)),
+        None => RowOutcome::Skipped,
+        Some(dir) => summarise(row.records_with(dir, cfg)),
     };
     RowResult {
         name: row.name.clone(),

@@ -3,10 +3,9 @@
 
 use super::FilterState;
 use crate::corrections::site::Site;
-use crate::linalg::add;
 use crate::linalg::Mat6;
 use crate::measurements::record::Measurement;
-use crate::snapshot::wls::{dop, enu_block};
+use crate::snapshot::wls::{add_range_row, dop, enu_block, pin_absent_clocks};
 use crate::solution::{Dop, Fix, FixKind, FixSource, IonoCorrection, Velocity};
 
 /// What the report needs besides the state.
@@ -46,29 +45,12 @@ pub(crate) fn report(r: &Report<'_>) -> Option<Fix> {
     let mut geometry: Mat6 = [[0.0; 6]; 6];
     let mut present = [false; 3];
     for m in r.meas.iter().filter(|m| m.out.used()) {
-        add_geometry(&mut geometry, m.out.row, m.sat.sys);
+        add_range_row(&mut geometry, m.out.row, m.sat.sys, 1.0);
         if let Some(p) = present.get_mut(m.sat.sys) {
             *p = true;
         }
     }
-    // The clocks of absent systems pinned, as the least-squares geometry does.
-    for (k, p) in present.iter().enumerate() {
-        if !p {
-            add(&mut geometry, k.saturating_add(3), k.saturating_add(3), 1.0);
-        }
-    }
-    for i in 0..6 {
-        for j in 0..i {
-            let v = geometry
-                .get(j)
-                .and_then(|r| r.get(i))
-                .copied()
-                .unwrap_or(0.0);
-            if let Some(e) = geometry.get_mut(i).and_then(|r| r.get_mut(j)) {
-                *e = v;
-            }
-        }
-    }
+    pin_absent_clocks(&mut geometry, &present);
     let mut system_clock_m = [None; 3];
     for ((slot, present), isb) in system_clock_m
         .iter_mut()
@@ -109,20 +91,6 @@ pub(crate) fn report(r: &Report<'_>) -> Option<Fix> {
         }),
         source: r.source,
     })
-}
-
-/// Adds a row (−line of sight) to the upper triangle of the unweighted normal matrix of
-/// position and the system's clock (the caller mirrors it): six products and four ones
-/// instead of sixteen products.
-fn add_geometry(g: &mut Mat6, row: [f64; 3], sys: usize) {
-    let clock = sys.saturating_add(3);
-    for (i, a) in row.iter().enumerate() {
-        for (j, b) in row.iter().enumerate().skip(i) {
-            add(g, i, j, a * b);
-        }
-        add(g, i, clock, *a);
-    }
-    add(g, clock, clock, 1.0);
 }
 
 /// The reported position covariance, scaled up where its trace falls below `σ_URE²·PDOP²`:

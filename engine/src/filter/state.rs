@@ -201,15 +201,7 @@ impl FilterState {
         ];
         // A diagonal with positive variances is positive definite: checking the values is
         // enough (no factorisation, which keeps a restart cheap on the target).
-        if !x.iter().chain(&var).all(|v| v.is_finite()) {
-            return Err(StateError::NonFinite);
-        }
-        if !x.iter().all(|v| v.abs() <= MAX_ABS_STATE) {
-            return Err(StateError::StateOutOfRange);
-        }
-        if !var.iter().all(|&v| v > 0.0 && v <= MAX_VARIANCE) {
-            return Err(StateError::VarianceOutOfRange);
-        }
+        check_values(&x, var.iter(), var.iter().copied())?;
         let mut state = FilterState {
             x,
             p: [[0.0; STATE_LEN]; STATE_LEN],
@@ -229,18 +221,7 @@ impl FilterState {
     /// [`StateError::VarianceOutOfRange`], [`StateError::Asymmetric`] or
     /// [`StateError::NotPositiveDefinite`].
     pub fn from_parts(x: StateVector, p: Covariance) -> Result<Self, StateError> {
-        if !x.iter().chain(p.iter().flatten()).all(|v| v.is_finite()) {
-            return Err(StateError::NonFinite);
-        }
-        if !x.iter().all(|v| v.abs() <= MAX_ABS_STATE) {
-            return Err(StateError::StateOutOfRange);
-        }
-        if !(0..STATE_LEN)
-            .map(|i| at(&p, i, i))
-            .all(|v| v > 0.0 && v <= MAX_VARIANCE)
-        {
-            return Err(StateError::VarianceOutOfRange);
-        }
+        check_values(&x, p.iter().flatten(), (0..STATE_LEN).map(|i| at(&p, i, i)))?;
         if !symmetric(&p) {
             return Err(StateError::Asymmetric);
         }
@@ -443,6 +424,25 @@ impl FilterState {
         set(&mut self.x, CLOCK_BIAS, b);
         Ok(())
     }
+}
+
+/// The checks every constructor makes, in this order: every number finite (the state and
+/// `numbers`), every state within [`MAX_ABS_STATE`], every variance in `(0,` [`MAX_VARIANCE`]`]`.
+fn check_values<'a>(
+    x: &'a StateVector,
+    numbers: impl Iterator<Item = &'a f64>,
+    mut variances: impl Iterator<Item = f64>,
+) -> Result<(), StateError> {
+    if !x.iter().chain(numbers).all(|v| v.is_finite()) {
+        return Err(StateError::NonFinite);
+    }
+    if !x.iter().all(|v| v.abs() <= MAX_ABS_STATE) {
+        return Err(StateError::StateOutOfRange);
+    }
+    if !variances.all(|v| v > 0.0 && v <= MAX_VARIANCE) {
+        return Err(StateError::VarianceOutOfRange);
+    }
+    Ok(())
 }
 
 /// `|P_ij − P_ji| ≤ SYMMETRY_TOLERANCE · √(P_ii P_jj)` for every pair.

@@ -33,10 +33,8 @@ use super::{Batch, FilterState, FixPrior, MeasurementRow, ProcessNoise};
 use crate::config::Config;
 use crate::corrections::iono::IonoCoefficients;
 use crate::corrections::site::Site;
-use crate::frames::{dot, norm, sub};
+use crate::frames::{dot, sub};
 use crate::measurements::record::{Candidate, Fate, Measurement, Outcome};
-use crate::sat::System;
-use crate::snapshot::wls::sagnac;
 use crate::solution::{FilterEvent, Fix, FixSource};
 use crate::time::GnssTime;
 use heapless::Vec;
@@ -111,7 +109,7 @@ pub(crate) fn step(
     for m in meas.iter_mut() {
         let (c, o) = (&m.sat, &mut m.out);
         *o = Outcome::default();
-        let Some((u, rho)) = line_of_sight(&tr.state, c) else {
+        let Some((u, rho)) = c.line_of_sight(tr.state.position()) else {
             o.fate = Fate::Masked;
             continue;
         };
@@ -341,7 +339,7 @@ fn update_all(
         let u = [-o.row[0], -o.row[1], -o.row[2]];
         let nu = o.residual_m - shift;
         let r = range_variance(cfg, o);
-        let row = MeasurementRow::pseudorange(u, system(c));
+        let row = MeasurementRow::pseudorange(u, c.system());
         let w = 1.0 / r;
         if held.is_some() {
             ranges.add(nu, w);
@@ -411,10 +409,6 @@ fn zero_velocity(batch: &mut Batch, state: &FilterState) {
     }
 }
 
-fn system(c: &Candidate) -> System {
-    System::ALL.get(c.sys).copied().unwrap_or(System::Gps)
-}
-
 /// The filter's pseudorange variance: the code σ model, the signal-in-space error and what
 /// the atmosphere models leave. The filter needs all of them: it tests its innovations
 /// against this variance, where the least-squares weights only need the ratios.
@@ -428,15 +422,6 @@ fn doppler_sigma(cfg: &Config, c: &Candidate) -> f64 {
     cfg.snapshot.doppler_sigma_mps * f64::from(c.cn0_factor)
 }
 
-/// Unit line of sight from the filter's position to the candidate's satellite, and range.
-fn line_of_sight(state: &FilterState, c: &Candidate) -> Option<([f64; 3], f64)> {
-    let p = state.position();
-    let sat = sagnac(c.pos, p, c.omega_e());
-    let d = sub(sat, p);
-    let rho = norm(d);
-    (rho > 0.0).then(|| ([d[0] / rho, d[1] / rho, d[2] / rho], rho))
-}
-
 /// The state's inter-system bias for the candidate's system (0 for GPS).
 fn isb(state: &FilterState, c: &Candidate) -> f64 {
     let [e, b] = state.inter_system_biases();
@@ -448,7 +433,7 @@ fn isb(state: &FilterState, c: &Candidate) -> f64 {
 }
 
 /// The pseudorange innovation `z − h(x)` at the current state, `rho` the geometric range
-/// from [`line_of_sight`].
+/// from [`Candidate::line_of_sight`].
 fn pseudorange_innovation(state: &FilterState, c: &Candidate, o: &Outcome, rho: f64) -> f64 {
     let (b, _) = state.clock();
     c.pr_m - (rho + b + isb(state, c) - c.clock_m + o.delay_m)

@@ -49,8 +49,12 @@ fn lower_series(a: f64, y: f64, ln_gamma_a: f64) -> f64 {
     libm::exp(a * libm::log(y) - y - ln_gamma_a) * sum
 }
 
-/// The lower-tail probability of χ²(k) at `x > 0` (scipy's `chi2.cdf`).
+/// The lower-tail probability of χ²(k) at `x > 0` (scipy's `chi2.cdf`); NaN for `k` of 0
+/// or above [`MAX_DOF`], or `x` not positive and finite.
 pub fn cdf(k: u32, x: f64) -> f64 {
+    if k == 0 || k > MAX_DOF || !(x > 0.0 && x.is_finite()) {
+        return f64::NAN;
+    }
     cdf_given(k, x, ln_gamma_half(k))
 }
 

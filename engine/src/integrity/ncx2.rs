@@ -12,14 +12,20 @@
 //! freedom: within 1e-8 relative (integrity/ncx2_tests.rs). Host-side or configuration-time
 //! cost: a few hundred incomplete-gamma evaluations.
 
-use super::chi2::{cdf_given, ln_gamma_half};
+use super::chi2::{cdf_given, ln_gamma_half, MAX_DOF};
 
 /// Largest non-centrality searched (a bias of 100 σ): beyond it nothing is detectable that
 /// matters.
 const MAX_LAMBDA: f64 = 1e4;
 
-/// `F(x; k, λ)`, the non-central χ² distribution function.
+/// `F(x; k, λ)`, the non-central χ² distribution function; NaN for `k` of 0 or above
+/// [`MAX_DOF`], `λ` outside `[0, 1e4]` or `x` not positive and finite (the bounds keep the
+/// Poisson sum finite).
 pub fn ncx2_cdf(k: u32, lambda: f64, x: f64) -> f64 {
+    if k == 0 || k > MAX_DOF || !(0.0..=MAX_LAMBDA).contains(&lambda) || !(x > 0.0 && x.is_finite())
+    {
+        return f64::NAN;
+    }
     let half = lambda / 2.0;
     let mut weight = libm::exp(-half);
     let mut sum = 0.0;

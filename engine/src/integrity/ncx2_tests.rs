@@ -34,4 +34,9 @@ fn refuses_what_it_cannot_evaluate() {
     assert_eq!(detectable_noncentrality(3, 10.0, 0.0), None);
     assert_eq!(detectable_noncentrality(3, f64::NAN, 1e-3), None);
     assert_eq!(detectable_noncentrality(3, -1.0, 1e-3), None);
+    // Out-of-range arguments end at once, with NaN (a huge λ would otherwise sum ~4e9 terms).
+    assert!(ncx2_cdf(3, 1e300, 10.0).is_nan());
+    assert!(ncx2_cdf(3, f64::NAN, 10.0).is_nan());
+    assert!(ncx2_cdf(u32::MAX, 1.0, 10.0).is_nan());
+    assert!(crate::integrity::chi2::cdf(u32::MAX, 10.0).is_nan());
 }

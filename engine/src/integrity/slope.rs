@@ -15,7 +15,8 @@
 //! 12 satellites: within 1e-9 relative (integrity/slope_tests.rs). Cost: one 6×6 Cholesky
 //! and inverse, then about 60 multiplications per satellite.
 
-use crate::linalg::{add, Cholesky6, Mat6};
+use crate::linalg::{Cholesky6, Mat6};
+use crate::snapshot::wls::{add_range_row, pin_absent_clocks};
 
 /// One measurement of the geometry.
 #[derive(Clone, Copy, Debug, PartialEq)]
@@ -88,21 +89,13 @@ pub fn slopes(rows: &[SlopeRow], out: &mut [Slope]) -> Result<(), SlopeError> {
     let mut normal: Mat6 = [[0.0; 6]; 6];
     let mut present = [false; 3];
     for r in rows {
-        let v = g(r);
-        for (i, a) in v.iter().enumerate() {
-            for (j, b) in v.iter().enumerate() {
-                add(&mut normal, i, j, r.weight * a * b);
-            }
-        }
+        let [e, n, u] = r.los_enu;
+        add_range_row(&mut normal, [-e, -n, -u], r.system, r.weight);
         if let Some(p) = present.get_mut(r.system) {
             *p = true;
         }
     }
-    for (k, p) in present.iter().enumerate() {
-        if !p {
-            add(&mut normal, k.saturating_add(3), k.saturating_add(3), 1.0);
-        }
-    }
+    pin_absent_clocks(&mut normal, &present);
     let inv = Cholesky6::factor(normal)
         .ok_or(SlopeError::SingularGeometry)?
         .inverse();

@@ -5,7 +5,9 @@
 //! and the engine writes the observation's [`crate::SatUse`] from both.
 
 use crate::corrections::site::{SatCorrection, SatInput};
+use crate::frames::{norm, sub};
 use crate::sat::System;
+use crate::snapshot::wls::sagnac;
 
 /// A screened observation: its index in the epoch, its satellite, what the stages made of it.
 #[derive(Clone, Copy, Debug)]
@@ -50,11 +52,24 @@ impl Candidate {
         }
     }
 
+    /// The satellite's system.
+    pub fn system(&self) -> System {
+        System::ALL.get(self.sys).copied().unwrap_or(System::Gps)
+    }
+
     /// Earth rotation rate of the satellite's system, rad/s (for the Sagnac rotation).
     pub fn omega_e(&self) -> f64 {
-        System::ALL
-            .get(self.sys)
-            .map_or(crate::sat::GPS_CONSTANTS.omega_e, |s| s.constants().omega_e)
+        self.system().constants().omega_e
+    }
+
+    /// The unit line of sight from `rx` (ECEF, m) to the satellite rotated for the Earth's
+    /// rotation during the signal's flight, and the range; `None` at zero range. The one
+    /// geometry the least squares and the filter both linearise on.
+    pub fn line_of_sight(&self, rx: [f64; 3]) -> Option<([f64; 3], f64)> {
+        let sat = sagnac(self.pos, rx, self.omega_e());
+        let d = sub(sat, rx);
+        let rho = norm(d);
+        (rho > 0.0).then(|| ([d[0] / rho, d[1] / rho, d[2] / rho], rho))
     }
 }
 

@@ -74,13 +74,9 @@ pub(crate) fn solve(meas: &mut [Measurement], setup: &Setup<'_>) -> Result<Fix, 
             if o.used() {
                 o.fate = Fate::Pending;
             }
-            let sat = sagnac(c.pos, pos, c.omega_e());
-            let los = sub(sat, pos);
-            let rho = norm(los);
-            if rho <= 0.0 {
+            let Some((u, rho)) = c.line_of_sight(pos) else {
                 continue;
-            }
-            let u = [los[0] / rho, los[1] / rho, los[2] / rho];
+            };
             if let (true, Some(site)) = (refresh, &site) {
                 let k = site.apply(c.sat_input(), u);
                 o.correct(&k);
@@ -94,17 +90,14 @@ pub(crate) fn solve(meas: &mut [Measurement], setup: &Setup<'_>) -> Result<Fix, 
             let clock = clk.get(c.sys).copied().unwrap_or(0.0);
             let v = c.pr_m - (rho + clock - c.clock_m + o.delay_m);
             let w = 1.0 / (o.sigma_m * o.sigma_m);
-            // The row has four non-zeros (−LOS and this system's clock): update only those.
-            let idx = [0, 1, 2, c.sys.saturating_add(3)];
-            let val = [-u[0], -u[1], -u[2], 1.0];
-            for (&i, &a) in idx.iter().zip(val.iter()) {
-                for (&j, &b) in idx.iter().zip(val.iter()) {
-                    add(&mut normal, i, j, a * b * w);
-                    add(&mut geometry, i, j, a * b);
-                }
-                if let Some(x) = rhs.get_mut(i) {
-                    *x += a * v * w;
-                }
+            let row = [-u[0], -u[1], -u[2]];
+            add_range_row(&mut normal, row, c.sys, w);
+            add_range_row(&mut geometry, row, c.sys, 1.0);
+            for (x, a) in rhs.iter_mut().zip(row) {
+                *x += a * v * w;
+            }
+            if let Some(x) = rhs.get_mut(c.sys.saturating_add(3)) {
+                *x += v * w;
             }
             if let Some(p) = present.get_mut(c.sys) {
                 *p = true;
@@ -112,7 +105,7 @@ pub(crate) fn solve(meas: &mut [Measurement], setup: &Setup<'_>) -> Result<Fix, 
             used = used.saturating_add(1);
             o.fate = Fate::Used;
             o.residual_m = v;
-            o.row = [-u[0], -u[1], -u[2]];
+            o.row = row;
         }
         let systems = present.iter().filter(|p| **p).count() as u8;
         let unknowns = 3u8.saturating_add(systems);
@@ -150,14 +143,8 @@ pub(crate) fn solve(meas: &mut [Measurement], setup: &Setup<'_>) -> Result<Fix, 
                 }
             }
         }
-        // Pin the clocks of absent systems (a unit diagonal keeps the matrix regular).
-        for (k, p) in present.iter().enumerate() {
-            if !p {
-                let d = (k.saturating_add(3), k.saturating_add(3));
-                add(&mut normal, d.0, d.1, 1.0);
-                add(&mut geometry, d.0, d.1, 1.0);
-            }
-        }
+        pin_absent_clocks(&mut normal, &present);
+        pin_absent_clocks(&mut geometry, &present);
         let chol = Cholesky6::factor(normal).ok_or(NoFixReason::SingularGeometry)?;
         let d = chol.solve(&rhs);
         if d.iter().any(|v| !v.is_finite()) {
@@ -260,6 +247,37 @@ fn finish(f: &FinishInput<'_>, meas: &mut [Measurement]) -> Result<Fix, NoFixRea
         velocity: None,
         source: FixSource::Snapshot,
     })
+}
+
+/// Adds `w·g gᵀ` for a pseudorange row `g = [row, 1 on the clock of system sys]` to the
+/// lower triangle and diagonal of a 6×6 normal matrix: the four non-zeros of the row, and
+/// only what the Cholesky factor reads (the least squares, the filter's DOP and the
+/// residual-test slopes all build their matrices so).
+pub(crate) fn add_range_row(m: &mut Mat6, row: [f64; 3], sys: usize, w: f64) {
+    // Nine multiplications: the clock coefficient is 1.
+    let [x, y, z] = row;
+    let (xw, yw, zw) = (x * w, y * w, z * w);
+    add(m, 0, 0, xw * x);
+    add(m, 1, 0, yw * x);
+    add(m, 1, 1, yw * y);
+    add(m, 2, 0, zw * x);
+    add(m, 2, 1, zw * y);
+    add(m, 2, 2, zw * z);
+    let c = sys.saturating_add(3);
+    add(m, c, 0, xw);
+    add(m, c, 1, yw);
+    add(m, c, 2, zw);
+    add(m, c, c, w);
+}
+
+/// A unit diagonal for the clock of each system without a satellite, so that the 6×6
+/// matrix stays regular whatever the systems present.
+pub(crate) fn pin_absent_clocks(m: &mut Mat6, present: &[bool; 3]) {
+    for (k, p) in present.iter().enumerate() {
+        if !p {
+            add(m, k.saturating_add(3), k.saturating_add(3), 1.0);
+        }
+    }
 }
 
 /// The dilution of precision of an unweighted geometry matrix `GᵀG` (position and the three
