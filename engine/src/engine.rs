@@ -3,8 +3,13 @@
 
 use crate::config::{Config, ConfigError, FilterMode};
 use crate::corrections::iono::IonoCoefficients;
-use crate::filter::track::{self, Context, Step, Tracked};
+use crate::filter::track::{self, Context, Notes, Step, Tracked};
 use crate::frames::LocalFrame;
+use crate::integrity::fde::{residual_test, TestSetup, Verdict};
+use crate::integrity::protect::protection_levels;
+use crate::integrity::signals::{self, cn0_mean_spread};
+use crate::integrity::table::Thresholds;
+use crate::integrity::watch::Watch;
 use crate::measurements::observation::{Epoch, Observation};
 use crate::measurements::record::{Candidate, Fate, Measurement, Outcome};
 use crate::nav::ephemeris::{BroadcastEphemeris, EphemerisError};
@@ -13,8 +18,8 @@ use crate::sat::SPEED_OF_LIGHT;
 use crate::snapshot::velocity::{solve_velocity, RateRow};
 use crate::snapshot::wls::{solve, Setup};
 use crate::solution::{
-    DopplerUse, FilterEvent, Fix, FixKind, FixOutcome, FixSource, NoFixReason, SatStatus, SatUse,
-    Solution, Velocity,
+    DopplerUse, FilterEvent, Fix, FixKind, FixOutcome, FixSource, Flags, Integrity, IntegrityState,
+    NoFixReason, SatStatus, SatUse, Solution, Velocity,
 };
 use crate::time::GnssTime;
 use heapless::Vec;
@@ -68,6 +73,8 @@ pub struct Engine<const N: usize, const EPH: usize> {
     last_time: Option<GnssTime>,
     anchor: Option<Anchor>,
     tracked: Option<Tracked>,
+    thresholds: Thresholds<N>,
+    watch: Watch,
 }
 
 impl<const N: usize, const EPH: usize> Engine<N, EPH> {
@@ -82,6 +89,8 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             last_time: None,
             anchor: None,
             tracked: None,
+            thresholds: Thresholds::new(),
+            watch: Watch::new(),
         }
     }
 
@@ -171,6 +180,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         self.last_time = None;
         self.anchor = None;
         self.tracked = None;
+        self.watch = Watch::new();
     }
 
     /// Computes the solution of one epoch.
@@ -217,10 +227,33 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
                 sigma_m: None,
                 status,
                 doppler: doppler_use(obs, range_rate),
+                reflection: false,
             });
         }
 
-        let (result, filter_event) = self.solve_epoch(epoch.time, &mut meas);
+        let t = epoch.time;
+        let icfg = self.config.integrity;
+        let prior = self.tracked.as_ref().map(Tracked::position);
+        let prior = prior.or(self.anchor.map(|a| a.ecef_m));
+        let reflections = match (icfg.enabled, prior) {
+            (true, Some(at)) => signals::mark_reflections(&mut meas, at, &icfg),
+            _ => 0,
+        };
+        if icfg.enabled {
+            self.watch.keep_out(&mut meas, t);
+        }
+        let (result, notes, verdict) = self.solve_epoch(t, &mut meas);
+        let mut integrity = self.assess(&result, &verdict, &meas);
+        integrity.reflections = reflections;
+        if icfg.enabled {
+            let one = self
+                .thresholds
+                .get(1, icfg.false_alarm, icfg.integrity_risk);
+            let limit = one.map_or(f64::INFINITY, |(x, _)| x);
+            self.watch.remember(&meas, t, icfg.exclusion_hold_s, limit);
+            integrity.flags = self.flags(epoch, &notes);
+        }
+        let filter_event = notes.event;
         self.mark(&result, &meas, &mut sats);
         let outcome = match result {
             Ok(fix) => {
@@ -239,6 +272,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             time: epoch.time,
             outcome,
             filter_event,
+            integrity,
             sats,
         })
     }
@@ -305,19 +339,24 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             vel: state.vel,
             clock_drift_mps: state.clock_drift * SPEED_OF_LIGHT,
             range_rate_mps: range_rate,
+            id: obs.sat,
+            cn0_dbhz: cn0,
+            reflection: false,
         })
     }
 
     /// The epoch's fix: the navigation filter's while it tracks; otherwise the least-squares
-    /// solution, which (in tracking mode) starts the filter. Also says what the filter did.
+    /// solution, which (in tracking mode) starts the filter. Also says what the filter
+    /// noticed and what the residual test found.
     fn solve_epoch(
         &mut self,
         t: GnssTime,
         meas: &mut [Measurement],
-    ) -> (Result<Fix, NoFixReason>, FilterEvent) {
+    ) -> (Result<Fix, NoFixReason>, Notes, Verdict) {
         if self.config.filter.mode != FilterMode::Tracking {
             self.tracked = None;
-            return (self.snapshot(t, meas), FilterEvent::None);
+            let (result, verdict) = self.checked_snapshot(t, meas);
+            return (result, Notes::default(), verdict);
         }
         let ctx = Context {
             cfg: &self.config,
@@ -325,14 +364,26 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             tow_s: t.tow_s(),
             time: t,
         };
-        let event = match track::step(&mut self.tracked, &ctx, meas) {
-            Step::Fix(fix, event) => return (Ok(fix), event),
-            Step::Lost(event) => event,
+        let event = match track::predict(&mut self.tracked, &ctx, meas) {
+            Ok(predicted) => {
+                // The residual test on the innovations, before the update uses them.
+                let pending = |o: &Outcome| o.fate == Fate::Pending;
+                let verdict = test(&mut self.thresholds, &self.config, meas, pending);
+                match track::update(&mut self.tracked, &ctx, meas, predicted) {
+                    Step::Fix(fix, notes) => return (Ok(fix), notes, verdict),
+                    Step::Lost(event) => event,
+                }
+            }
+            Err(event) => event,
         };
         for m in meas.iter_mut() {
+            let kept = m.out.fate == Fate::KeptOut;
             m.out = Outcome::default();
+            if kept {
+                m.out.fate = Fate::KeptOut;
+            }
         }
-        let result = self.snapshot(t, meas);
+        let (result, verdict) = self.checked_snapshot(t, meas);
         self.tracked = result.as_ref().ok().and_then(|fix| track::start(fix, t));
         let event = match (event, &self.tracked) {
             (FilterEvent::Started, None) => FilterEvent::None,
@@ -340,12 +391,124 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             (FilterEvent::None, Some(_)) => FilterEvent::Started,
             (e, Some(_)) => e,
         };
-        (result, event)
+        let notes = Notes {
+            event,
+            ..Notes::default()
+        };
+        (result, notes, verdict)
+    }
+
+    /// The least-squares solution with the residual test: after an exclusion, solved once
+    /// more without the excluded satellites, from the first solution's position.
+    fn checked_snapshot(
+        &mut self,
+        t: GnssTime,
+        meas: &mut [Measurement],
+    ) -> (Result<Fix, NoFixReason>, Verdict) {
+        let first = self.snapshot(t, meas, None);
+        let Ok(fix) = &first else {
+            return (first, Verdict::default());
+        };
+        let verdict = test(&mut self.thresholds, &self.config, meas, Outcome::used);
+        if verdict.excluded == 0 {
+            return (first, verdict);
+        }
+        (self.snapshot(t, meas, Some(fix.ecef_m)), verdict)
+    }
+
+    /// The integrity of the epoch's fix: its state and protection levels from the residual
+    /// test's verdict and the measurements the fix used.
+    fn assess(
+        &mut self,
+        result: &Result<Fix, NoFixReason>,
+        verdict: &Verdict,
+        meas: &[Measurement],
+    ) -> Integrity {
+        let c = self.config.integrity;
+        let excluded = meas.iter().filter(|m| m.out.excluded()).count();
+        let mut out = Integrity {
+            statistic: verdict.statistic as f32,
+            threshold: verdict.threshold as f32,
+            dof: verdict.dof,
+            excluded: u8::try_from(excluded).unwrap_or(u8::MAX),
+            ..Integrity::default()
+        };
+        let Ok(fix) = result else {
+            return out;
+        };
+        if !c.enabled || fix.source == FixSource::Predicted || verdict.dof == 0 {
+            return out;
+        }
+        if !verdict.passed {
+            out.state = IntegrityState::Alert;
+            return out;
+        }
+        // The bound belongs to the measurements the fix used, with their own redundancy.
+        let mut present = [false; 3];
+        for m in meas.iter().filter(|m| m.out.used()) {
+            if let Some(p) = present.get_mut(m.sat.sys) {
+                *p = true;
+            }
+        }
+        let unknowns = 3 + present.iter().filter(|p| **p).count();
+        let dof = usize::from(fix.used).saturating_sub(unknowns);
+        let Some((_, sqrt_lambda)) = self.thresholds.get(dof, c.false_alarm, c.integrity_risk)
+        else {
+            return out;
+        };
+        let frame = LocalFrame::new(fix.ecef_m, &fix.geodetic);
+        let ure = self.config.filter.ure_sigma_m;
+        if let Some((h, v)) = protection_levels(meas, &frame, sqrt_lambda, ure) {
+            out.hpl_m = Some(h as f32);
+            out.vpl_m = Some(v as f32);
+            out.state = if excluded > 0 {
+                IntegrityState::FaultExcluded
+            } else {
+                IntegrityState::Verified
+            };
+        }
+        out
+    }
+
+    /// The interference and spoofing indicators of the epoch.
+    fn flags(&mut self, epoch: &Epoch<N>, notes: &Notes) -> Flags {
+        let c = self.config.integrity;
+        let mut flags = Flags::default();
+        let (mean, spread, n) = cn0_mean_spread(epoch.obs.iter().filter_map(|o| o.cn0_dbhz));
+        if n > 0 {
+            let drop = self.watch.cn0_drop(mean, epoch.time);
+            if signals::jammed(drop, n, &c) {
+                flags.insert(Flags::JAMMING);
+            }
+        }
+        if signals::uniform(spread, n, &c) {
+            flags.insert(Flags::UNIFORM_CN0);
+        }
+        // Within continuous tracking only: a wake-up's new clock and a parked asset moved
+        // while the receiver slept are receiver events.
+        let continuous = notes.dt_s > 0.0 && notes.dt_s <= 5.0;
+        if continuous && notes.clock_shift_m != 0.0 && signals::odd_clock_jump(notes.clock_shift_m)
+        {
+            flags.insert(Flags::CLOCK_JUMP);
+        }
+        if notes.event == FilterEvent::RestartedDiverged {
+            flags.insert(Flags::INCONSISTENT_MOTION);
+        }
+        if continuous && notes.moved_without_doppler {
+            flags.insert(Flags::DOPPLER_MISMATCH);
+        }
+        flags
     }
 
     /// The least-squares solution of the epoch with its Doppler velocity.
+    /// `seed` overrides the last fix as the starting point.
     #[inline(never)]
-    fn snapshot(&self, t: GnssTime, meas: &mut [Measurement]) -> Result<Fix, NoFixReason> {
+    fn snapshot(
+        &self,
+        t: GnssTime,
+        meas: &mut [Measurement],
+        seed: Option<[f64; 3]>,
+    ) -> Result<Fix, NoFixReason> {
         let hold_height_m = self.anchor.and_then(|a| {
             (t.since(a.time).as_secs_f64() <= self.config.snapshot.altitude_hold_max_age_s)
                 .then_some(a.height_m)
@@ -354,7 +517,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             config: &self.config,
             iono: self.iono.as_ref(),
             tow_s: t.tow_s(),
-            seed: self.anchor.map_or([0.0; 3], |a| a.ecef_m),
+            seed: seed.unwrap_or(self.anchor.map_or([0.0; 3], |a| a.ecef_m)),
             hold_height_m,
         };
         let mut fix = solve(meas, &setup)?;
@@ -385,8 +548,11 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
                     s.residual_m = Some(o.residual_m);
                     s.sigma_m = Some(o.sigma_m as f32);
                 }
+                Fate::Excluded { statistic } => s.status = SatStatus::Excluded { statistic },
+                Fate::KeptOut => s.status = SatStatus::KeptOut,
                 Fate::Used | Fate::Pending => {}
             }
+            s.reflection = c.reflection;
             let rate_residual = match (snapshot, result) {
                 (true, Ok(fix)) => fix.velocity.and_then(|v| {
                     RateRow::of(c, o, sigma)
@@ -409,6 +575,31 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         let frame = LocalFrame::new(fix.ecef_m, &fix.geodetic);
         solve_velocity(rows, &frame)
     }
+}
+
+/// The residual test over the measurements `tested` accepts (nothing when integrity is
+/// off).
+fn test<const N: usize>(
+    thresholds: &mut Thresholds<N>,
+    config: &Config,
+    meas: &mut [Measurement],
+    tested: fn(&Outcome) -> bool,
+) -> Verdict {
+    let c = &config.integrity;
+    if !c.enabled {
+        return Verdict::default();
+    }
+    residual_test(
+        meas,
+        tested,
+        &mut TestSetup {
+            table: thresholds,
+            false_alarm: c.false_alarm,
+            integrity_risk: c.integrity_risk,
+            max_exclusions: c.max_exclusions,
+            ure_sigma_m: config.filter.ure_sigma_m,
+        },
+    )
 }
 
 /// The observation's range rate −λ·D in m/s, when its Doppler is reported (zero is

@@ -63,8 +63,8 @@ pub use iono::IonoCoefficients;
 pub use observation::{Epoch, Observation};
 pub use sat::{SatId, Signal, System, SPEED_OF_LIGHT};
 pub use solution::{
-    Dop, DopplerUse, FilterEvent, Fix, FixKind, FixOutcome, FixSource, IonoCorrection, NoFixReason,
-    SatStatus, SatUse, Solution, Velocity,
+    Dop, DopplerUse, FilterEvent, Fix, FixKind, FixOutcome, FixSource, Flags, Integrity,
+    IntegrityState, IonoCorrection, NoFixReason, SatStatus, SatUse, Solution, Velocity,
 };
 pub use store::{EphemerisStore, Ingested};
 pub use time::{GnssTime, TimeError, UtcDateTime};

@@ -43,6 +43,14 @@ pub enum SatStatus {
         /// The normalised innovation squared ν²/S that failed the test.
         nis: f32,
     },
+    /// Excluded by the residual test this epoch (the satellite its identification found).
+    Excluded {
+        /// Its normalised residual (w-test statistic) when it was identified.
+        statistic: f32,
+    },
+    /// Kept out after an exclusion within the last `integrity.exclusion_hold_s`; it is
+    /// tested again after that.
+    KeptOut,
 }
 
 /// What became of an observation's Doppler.
@@ -86,6 +94,9 @@ pub struct SatUse {
     pub status: SatStatus,
     /// What became of its Doppler.
     pub doppler: DopplerUse,
+    /// Its C/N0 was far below what its elevation leads to expect, or its Doppler disagreed
+    /// with the filter's prediction: taken for a reflection and down-weighted.
+    pub reflection: bool,
 }
 
 /// Dilution of precision, from the unweighted geometry (HᵀH)⁻¹ in east/north/up.
@@ -253,6 +264,115 @@ impl FilterEvent {
     }
 }
 
+/// How far a fix can be trusted, from the residual test (docs/integrity.md).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[non_exhaustive]
+pub enum IntegrityState {
+    /// The residual test passed with every satellite used: the protection levels hold.
+    Verified,
+    /// The test found a faulty satellite (or one is kept out after an earlier exclusion);
+    /// without it the test passes and the protection levels hold.
+    FaultExcluded,
+    /// Not checked: no fix, a predicted fix, too few satellites for the test (no redundancy),
+    /// or integrity disabled. Never a silent "verified".
+    #[default]
+    Unavailable,
+    /// The test failed and no exclusion made it pass: the fix must not be trusted.
+    Alert,
+}
+
+impl IntegrityState {
+    /// The state in plain words, as reports print it.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            IntegrityState::Verified => "verified",
+            IntegrityState::FaultExcluded => "fault excluded",
+            IntegrityState::Unavailable => "unavailable",
+            IntegrityState::Alert => "alert",
+        }
+    }
+}
+
+/// Interference and spoofing indicators raised at an epoch: reasons to doubt the signals,
+/// not guarantees (docs/integrity.md names the method behind each).
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Flags(pub u8);
+
+impl Flags {
+    /// The mean C/N0 of all satellites fell well below its recent level at once.
+    pub const JAMMING: Flags = Flags(1);
+    /// C/N0 nearly equal across many satellites (one transmitter's signals).
+    pub const UNIFORM_CN0: Flags = Flags(2);
+    /// The receiver clock jumped by an amount that is not a whole millisecond.
+    pub const CLOCK_JUMP: Flags = Flags(4);
+    /// The measurements disagreed with the filter's prediction as a whole (the filter
+    /// restarted on divergence).
+    pub const INCONSISTENT_MOTION: Flags = Flags(8);
+    /// The asset moved although its Doppler says it stands still.
+    pub const DOPPLER_MISMATCH: Flags = Flags(16);
+
+    /// Every flag with its name, in bit order.
+    pub const ALL: [(Flags, &'static str); 5] = [
+        (Flags::JAMMING, "jamming"),
+        (Flags::UNIFORM_CN0, "uniform-cn0"),
+        (Flags::CLOCK_JUMP, "clock-jump"),
+        (Flags::INCONSISTENT_MOTION, "inconsistent-motion"),
+        (Flags::DOPPLER_MISMATCH, "doppler-mismatch"),
+    ];
+
+    /// Whether every flag of `other` is raised.
+    pub fn contains(self, other: Flags) -> bool {
+        self.0 & other.0 == other.0 && other.0 != 0
+    }
+
+    /// Raises the flags of `other`.
+    pub fn insert(&mut self, other: Flags) {
+        self.0 |= other.0;
+    }
+
+    /// No flag raised.
+    pub fn is_empty(self) -> bool {
+        self.0 == 0
+    }
+
+    /// The names of the raised flags.
+    pub fn names(self) -> impl Iterator<Item = &'static str> {
+        Flags::ALL
+            .into_iter()
+            .filter(move |(f, _)| self.contains(*f))
+            .map(|(_, n)| n)
+    }
+}
+
+/// The integrity of one epoch's fix.
+#[derive(Clone, Copy, Debug, PartialEq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+pub struct Integrity {
+    /// How far the fix can be trusted.
+    pub state: IntegrityState,
+    /// Horizontal protection level, m, when the state is verified or fault excluded.
+    pub hpl_m: Option<f32>,
+    /// Vertical protection level, m, likewise.
+    pub vpl_m: Option<f32>,
+    /// The residual test statistic (weighted sum of squared residuals) after any exclusion.
+    pub statistic: f32,
+    /// Its threshold, χ² at the configured false-alarm probability.
+    pub threshold: f32,
+    /// The test's degrees of freedom (0: no test).
+    pub dof: u8,
+    /// Satellites excluded this epoch or kept out after an earlier exclusion.
+    pub excluded: u8,
+    /// Pseudoranges taken for reflections and down-weighted.
+    pub reflections: u8,
+    /// Interference and spoofing indicators.
+    pub flags: Flags,
+}
+
 /// Why an epoch produced no fix.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -300,6 +420,8 @@ pub struct Solution<const N: usize> {
     pub outcome: FixOutcome,
     /// What the navigation filter did besides its usual step.
     pub filter_event: FilterEvent,
+    /// How far the fix can be trusted, its protection levels and the indicators.
+    pub integrity: Integrity,
     /// One entry per observation of the epoch, in input order.
     pub sats: Vec<SatUse, N>,
 }

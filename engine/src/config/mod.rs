@@ -1,6 +1,6 @@
 //! Every tunable of the engine, as plain data with documented defaults, one part per stage
 //! ([`MeasurementConfig`], [`NavConfig`], [`CorrectionConfig`], [`SnapshotConfig`],
-//! [`FilterConfig`]).
+//! [`FilterConfig`], [`IntegrityConfig`]).
 //! [`Config::validate`] names the first field outside its documented range; the engine
 //! refuses such a configuration. With the `serde` feature every part reads from and writes
 //! to TOML (or any serde format) with its defaults for missing keys and an error for
@@ -9,6 +9,7 @@
 mod stages;
 mod validate;
 
+pub use stages::IntegrityConfig;
 pub use stages::{
     CorrectionConfig, FilterConfig, FilterMode, HoldMode, IonoModel, MeasurementConfig, NavConfig,
     SnapshotConfig, SystemSet, SystemSignals, TropoModel,
@@ -35,6 +36,8 @@ pub struct Config {
     pub snapshot: SnapshotConfig,
     /// The navigation filter.
     pub filter: FilterConfig,
+    /// Integrity: fault detection and exclusion, protection levels, indicators.
+    pub integrity: IntegrityConfig,
 }
 
 impl Config {
@@ -47,6 +50,7 @@ impl Config {
         corrections: CorrectionConfig::DEFAULT,
         snapshot: SnapshotConfig::DEFAULT,
         filter: FilterConfig::DEFAULT,
+        integrity: IntegrityConfig::DEFAULT,
     };
 
     /// Whether `system` is enabled.

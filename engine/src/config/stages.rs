@@ -375,3 +375,65 @@ impl Default for FilterConfig {
         FilterConfig::DEFAULT
     }
 }
+
+/// Integrity: the residual test with fault detection and exclusion, protection levels, the
+/// satellites kept out after an exclusion, reflected-signal weighting and the interference
+/// and spoofing indicators (docs/integrity.md).
+#[derive(Clone, Copy, Debug, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+#[cfg_attr(feature = "serde", derive(serde::Serialize, serde::Deserialize))]
+#[cfg_attr(feature = "serde", serde(default, deny_unknown_fields))]
+#[non_exhaustive]
+pub struct IntegrityConfig {
+    /// Whether the residual test, exclusion and protection levels run. Default true.
+    pub enabled: bool,
+    /// False-alarm probability of the residual test per epoch. Default 0.002/30 = 6.667e-5: 0.002
+    /// alarms per hour at 30 independent samples per hour (US National Research Council
+    /// 1995, Table 1, via ../shared/CHECKS.md). Range 1e-9–0.5.
+    pub false_alarm: f64,
+    /// Integrity risk: the probability allowed for a fault the test misses to move the fix
+    /// beyond its protection level (the missed-detection probability of the slope-based
+    /// bound). Default 1e-3 (the detection probability of 0.999 of the same table). Range
+    /// 1e-9–0.5: below 1e-9 the non-central χ² search leaves its evaluated span.
+    pub integrity_risk: f64,
+    /// Satellites excluded one after another in an epoch when the test still fails. Default
+    /// 2. Range 0–2.
+    pub max_exclusions: u8,
+    /// How long an excluded satellite stays out before it is tested again, s. Default 60 s.
+    /// Range 0–3,600 s.
+    pub exclusion_hold_s: f64,
+    /// A satellite whose C/N0 lies this far below what its elevation leads to expect (from
+    /// the epoch's other satellites) is taken for a reflection: its σ is multiplied by
+    /// `reflection_sigma_factor`. Default 8 dB. Range 1–40 dB.
+    pub reflection_margin_db: f64,
+    /// σ multiplier of a suspected reflection. Default 4 (1 turns the weighting off). Range
+    /// 1–100.
+    pub reflection_sigma_factor: f64,
+    /// Drop of the mean C/N0 of all satellites below its recent level that raises the
+    /// jamming flag, dB. Default 6 dB. Range 1–40 dB.
+    pub jamming_drop_db: f64,
+    /// Spread of C/N0 across at least six satellites below which the signals look like one
+    /// transmitter's (the spoofing flag), dB. Default 1.5 dB. Range 0–10 dB.
+    pub uniform_cn0_db: f64,
+}
+
+impl IntegrityConfig {
+    /// The defaults.
+    pub const DEFAULT: IntegrityConfig = IntegrityConfig {
+        enabled: true,
+        false_alarm: 0.002 / 30.0,
+        integrity_risk: 1e-3,
+        max_exclusions: 2,
+        exclusion_hold_s: 60.0,
+        reflection_margin_db: 8.0,
+        reflection_sigma_factor: 4.0,
+        jamming_drop_db: 6.0,
+        uniform_cn0_db: 1.5,
+    };
+}
+
+impl Default for IntegrityConfig {
+    fn default() -> Self {
+        IntegrityConfig::DEFAULT
+    }
+}

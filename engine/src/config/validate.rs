@@ -221,6 +221,39 @@ impl Config {
         range("filter.max_coast_s", f.max_coast_s, 0.0, 3_600.0)?;
         range("filter.max_gap_s", f.max_gap_s, 1.0, 86_400.0)?;
         range("filter.hold_speed_mps", f.hold_speed_mps, 0.01, 5.0)?;
-        range("filter.hold_after_s", f.hold_after_s, 1.0, 600.0)
+        range("filter.hold_after_s", f.hold_after_s, 1.0, 600.0)?;
+        self.validate_integrity()
+    }
+
+    fn validate_integrity(&self) -> Result<(), ConfigError> {
+        let i = &self.integrity;
+        range("integrity.false_alarm", i.false_alarm, 1e-9, 0.5)?;
+        range("integrity.integrity_risk", i.integrity_risk, 1e-9, 0.5)?;
+        range(
+            "integrity.max_exclusions",
+            f64::from(i.max_exclusions),
+            0.0,
+            2.0,
+        )?;
+        range(
+            "integrity.exclusion_hold_s",
+            i.exclusion_hold_s,
+            0.0,
+            3_600.0,
+        )?;
+        range(
+            "integrity.reflection_margin_db",
+            i.reflection_margin_db,
+            1.0,
+            40.0,
+        )?;
+        range(
+            "integrity.reflection_sigma_factor",
+            i.reflection_sigma_factor,
+            1.0,
+            100.0,
+        )?;
+        range("integrity.jamming_drop_db", i.jamming_drop_db, 1.0, 40.0)?;
+        range("integrity.uniform_cn0_db", i.uniform_cn0_db, 0.0, 10.0)
     }
 }

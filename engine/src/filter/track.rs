@@ -51,6 +51,13 @@ pub(crate) struct Tracked {
     window: NisWindow,
 }
 
+impl Tracked {
+    /// The filter's position, ECEF, m.
+    pub fn position(&self) -> [f64; 3] {
+        self.state.position()
+    }
+}
+
 /// The epoch's inputs besides the candidates.
 pub(crate) struct Context<'a> {
     pub cfg: &'a Config,
@@ -67,26 +74,47 @@ pub(crate) struct Context<'a> {
 )]
 pub(crate) enum Step {
     /// A filtered, held or predicted fix.
-    Fix(Fix, FilterEvent),
+    Fix(Fix, Notes),
     /// Tracking ended (or never started): the engine solves by least squares and starts
     /// the filter again from that fix.
     Lost(FilterEvent),
 }
 
-/// Runs one tracked epoch. Each measurement record receives its corrections and what the
-/// filter did with its pseudorange and range rate.
+/// What the filter noticed at an epoch besides its fix, for the integrity indicators.
+#[derive(Clone, Copy, Debug, Default, PartialEq)]
+pub(crate) struct Notes {
+    /// What it did besides its usual step.
+    pub event: FilterEvent,
+    /// The receiver clock re-seat, m (0 when none).
+    pub clock_shift_m: f64,
+    /// Time since the previous epoch, s.
+    pub dt_s: f64,
+    /// A held asset's pseudoranges showed motion while its Dopplers showed none.
+    pub moved_without_doppler: bool,
+}
+
+/// A tracked epoch between its prediction and its update: the site of the corrections and
+/// what happened so far.
+pub(crate) struct Predicted<'a> {
+    site: Site<'a>,
+    notes: Notes,
+}
+
+/// The first half of a tracked epoch: predicts across the gap, computes the corrections at
+/// the predicted position and each pseudorange's innovation (into `residual_m`, fate
+/// pending), and re-seats the clock on a clock event. The engine then runs the residual
+/// test on those innovations and calls [`update`].
 // Not inlined: its frame and the least-squares one are never on the stack together
 // (docs/firmware.md).
 #[inline(never)]
-pub(crate) fn step(
+pub(crate) fn predict<'a>(
     tracked: &mut Option<Tracked>,
-    ctx: &Context<'_>,
+    ctx: &Context<'a>,
     meas: &mut [Measurement],
-) -> Step {
+) -> Result<Predicted<'a>, FilterEvent> {
     let Some(tr) = tracked.as_mut() else {
-        return Step::Lost(FilterEvent::Started);
+        return Err(FilterEvent::Started);
     };
-    let mut event = FilterEvent::None;
     let dt = ctx.time.since(tr.time).as_secs_f64();
     let f = &ctx.cfg.filter;
     let noise = ProcessNoise {
@@ -100,7 +128,7 @@ pub(crate) fn step(
     };
     if tr.state.predict(dt, f.max_gap_s, &noise).is_err() {
         *tracked = None;
-        return Step::Lost(FilterEvent::RestartedAfterGap);
+        return Err(FilterEvent::RestartedAfterGap);
     }
     tr.time = ctx.time;
 
@@ -108,6 +136,7 @@ pub(crate) fn step(
     let mut innovations: Vec<f64, 32> = Vec::new();
     for m in meas.iter_mut() {
         let (c, o) = (&m.sat, &mut m.out);
+        let kept = o.excluded();
         *o = Outcome::default();
         let Some((u, rho)) = c.line_of_sight(tr.state.position()) else {
             o.fate = Fate::Masked;
@@ -116,21 +145,54 @@ pub(crate) fn step(
         let k = site.apply(c.sat_input(), u);
         o.correct(&k);
         o.row = [-u[0], -u[1], -u[2]];
-        // The innovation before any clock re-seat; `update_all` subtracts the shift.
         o.residual_m = pseudorange_innovation(&tr.state, c, o, rho);
+        if kept && !o.masked() {
+            o.fate = Fate::KeptOut;
+        }
         if !o.masked() {
             let _ = innovations.push(o.residual_m);
         }
     }
     let shift = reseat_on_clock_event(&mut tr.state, &innovations);
-    if shift != 0.0 {
-        event = FilterEvent::ClockReseated;
+    for m in meas.iter_mut() {
+        m.out.residual_m -= shift;
     }
+    Ok(Predicted {
+        site,
+        notes: Notes {
+            event: if shift != 0.0 {
+                FilterEvent::ClockReseated
+            } else {
+                FilterEvent::None
+            },
+            clock_shift_m: shift,
+            dt_s: dt,
+            moved_without_doppler: false,
+        },
+    })
+}
+
+/// The second half of a tracked epoch: updates with the pseudoranges and range rates still
+/// pending (gated one by one), then the hold, the divergence test and the fix.
+#[inline(never)]
+pub(crate) fn update(
+    tracked: &mut Option<Tracked>,
+    ctx: &Context<'_>,
+    meas: &mut [Measurement],
+    predicted: Predicted<'_>,
+) -> Step {
+    let Some(tr) = tracked.as_mut() else {
+        return Step::Lost(FilterEvent::Started);
+    };
+    let Predicted { site, mut notes } = predicted;
+    let dt = notes.dt_s;
+    let f = &ctx.cfg.filter;
     let held = tr.still.held();
-    let tally = update_all(&mut tr.state, meas, ctx.cfg, shift, held.then_some(dt));
+    let tally = update_all(&mut tr.state, meas, ctx.cfg, held.then_some(dt));
     if held && tally.motion {
         tr.still = Stillness::Moving;
-        event = FilterEvent::HoldReleased;
+        notes.event = FilterEvent::HoldReleased;
+        notes.moved_without_doppler = tally.ranges_only;
     }
     let [vx, vy, vz] = tr.state.velocity();
     let vc = tr.state.velocity_cov();
@@ -167,7 +229,7 @@ pub(crate) fn step(
         site: &site,
     });
     match fix {
-        Some(fix) if fix_plausible(&fix, ctx.cfg) => Step::Fix(fix, event),
+        Some(fix) if fix_plausible(&fix, ctx.cfg) => Step::Fix(fix, notes),
         _ => {
             *tracked = None;
             Step::Lost(FilterEvent::RestartedDiverged)
@@ -276,6 +338,8 @@ struct Tally {
     nis_sum: f64,
     /// A held asset's innovations show motion (its velocity was freed).
     motion: bool,
+    /// Only its pseudoranges did: its range rates (at least four) showed none.
+    ranges_only: bool,
 }
 
 /// The weighted spread of innovations about their weighted mean, `Σ w ν² − (Σ w ν)²/Σ w`:
@@ -300,6 +364,7 @@ impl Spread {
     }
 
     /// Whether the spread exceeds the 0.999 quantile of χ²(n − 1); `None` below two values.
+    /// (`n` is also how many values it holds.)
     fn shows_motion(&self) -> Option<bool> {
         (self.n >= 2 && self.w > 0.0).then(|| {
             shows_motion(
@@ -310,17 +375,17 @@ impl Spread {
     }
 }
 
-/// Gates each unmasked candidate's pseudorange and range rate on its own innovation (χ²(1)
-/// against the prior `S = hᵀPh + R`), applies the rest in one batch (with zero-velocity
-/// rows while held and still), and records in each measurement what became of it. `shift` is the
-/// clock re-seat already applied to the state, to take from the stored innovations; `held`
-/// is the time since the last epoch, s, when the position is held.
+/// Gates each pending pseudorange and range rate on its own innovation (χ² (1) against the
+/// prior `S = hᵀPh + R`), applies the rest in one batch (with zero-velocity rows while held
+/// and still), and records in each measurement what became of it. A range rate that fails
+/// its gate marks its satellite as a reflection and widens its pseudorange's σ by the
+/// configured factor (a reflected path's Doppler differs from the direct one's). `held` is
+/// the time since the last epoch, s, when the position is held.
 #[inline(never)]
 fn update_all(
     state: &mut FilterState,
     meas: &mut [Measurement],
     cfg: &Config,
-    shift: f64,
     held: Option<f64>,
 ) -> Tally {
     let gate = cfg.filter.gate;
@@ -333,12 +398,24 @@ fn update_all(
         tested: 0,
         nis_sum: 0.0,
         motion: false,
+        ranges_only: false,
     };
-    for m in meas.iter_mut().filter(|m| !m.out.masked()) {
-        let (c, o) = (&m.sat, &mut m.out);
+    for m in meas.iter_mut().filter(|m| m.out.fate == Fate::Pending) {
+        let (c, o) = (&mut m.sat, &mut m.out);
         let u = [-o.row[0], -o.row[1], -o.row[2]];
-        let nu = o.residual_m - shift;
-        let r = range_variance(cfg, o);
+        let rate = c.range_rate_mps.map(|rate| {
+            let nu = rate - predicted_rate(state, c, u);
+            let s = doppler_sigma(cfg, c);
+            let row = MeasurementRow::range_rate(u);
+            let nis = nu * nu / state.innovation_variance(&row, s * s);
+            (nu, s, row, nis <= gate)
+        });
+        let mut r = range_variance(cfg, o);
+        if rate.is_some_and(|(.., ok)| !ok) && !c.reflection {
+            c.reflection = true;
+            r *= cfg.integrity.reflection_sigma_factor * cfg.integrity.reflection_sigma_factor;
+        }
+        let nu = o.residual_m;
         let row = MeasurementRow::pseudorange(u, c.system());
         let w = 1.0 / r;
         if held.is_some() {
@@ -355,26 +432,23 @@ fn update_all(
             continue;
         }
         o.fate = Fate::Used;
-        o.residual_m = nu;
         t.applied = t.applied.saturating_add(1);
-        let Some(rate) = c.range_rate_mps else {
+        let Some((nu, s, row, ok)) = rate else {
             continue;
         };
-        let nu = rate - predicted_rate(state, c, u);
-        let s = doppler_sigma(cfg, c);
-        let row = MeasurementRow::range_rate(u);
         let w = 1.0 / (s * s);
         if held.is_some() {
             rates.add(nu, w);
         }
-        let nis = nu * nu / state.innovation_variance(&row, s * s);
-        if nis <= gate && batch.add_weighted(&row, nu, w).is_ok() {
+        if ok && batch.add_weighted(&row, nu, w).is_ok() {
             o.rate_innovation_mps = Some(nu as f32);
             t.rates = t.rates.saturating_add(1);
         }
     }
     if let Some(dt) = held {
-        t.motion = rates.shows_motion().unwrap_or(false) || ranges.shows_motion().unwrap_or(false);
+        let by_rates = rates.shows_motion().unwrap_or(false);
+        t.motion = by_rates || ranges.shows_motion().unwrap_or(false);
+        t.ranges_only = t.motion && !by_rates && rates.n >= 4;
         if t.motion {
             let moved = RELEASE_SIGMA_MPS * dt.max(1.0);
             let _ = state.free_velocity(RELEASE_SIGMA_MPS * RELEASE_SIGMA_MPS);
@@ -409,12 +483,9 @@ fn zero_velocity(batch: &mut Batch, state: &FilterState) {
     }
 }
 
-/// The filter's pseudorange variance: the code σ model, the signal-in-space error and what
-/// the atmosphere models leave. The filter needs all of them: it tests its innovations
-/// against this variance, where the least-squares weights only need the ratios.
+/// The filter's pseudorange variance (see [`Outcome::test_variance`]).
 fn range_variance(cfg: &Config, o: &Outcome) -> f64 {
-    let ure = cfg.filter.ure_sigma_m;
-    o.sigma_m * o.sigma_m + ure * ure + o.model_var_m2
+    o.test_variance(cfg.filter.ure_sigma_m)
 }
 
 /// σ of a range rate: the configured Doppler σ scaled like the pseudorange's by C/N0.

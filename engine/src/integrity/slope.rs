@@ -78,14 +78,6 @@ pub fn slopes(rows: &[SlopeRow], out: &mut [Slope]) -> Result<(), SlopeError> {
     {
         return Err(SlopeError::InvalidInput);
     }
-    let g = |r: &SlopeRow| {
-        let [e, n, u] = r.los_enu;
-        let mut v = [-e, -n, -u, 0.0, 0.0, 0.0];
-        if let Some(c) = v.get_mut(r.system.saturating_add(3)) {
-            *c = 1.0;
-        }
-        v
-    };
     let mut normal: Mat6 = [[0.0; 6]; 6];
     let mut present = [false; 3];
     for r in rows {
@@ -100,31 +92,41 @@ pub fn slopes(rows: &[SlopeRow], out: &mut [Slope]) -> Result<(), SlopeError> {
         .ok_or(SlopeError::SingularGeometry)?
         .inverse();
     for (r, s) in rows.iter().zip(out.iter_mut()) {
-        let v = g(r);
-        let mut a = [0.0; 6];
-        for (ai, row) in a.iter_mut().zip(&inv) {
-            *ai = r.weight * row.iter().zip(&v).map(|(x, y)| x * y).sum::<f64>();
-        }
-        let p_ii: f64 = v.iter().zip(&a).map(|(x, y)| x * y).sum();
-        let [ae, an, au, ..] = a;
-        let redundancy = (1.0 - p_ii).max(0.0);
-        let (horizontal, vertical) = if redundancy < 1e-9 {
-            (f64::INFINITY, f64::INFINITY)
-        } else {
-            let d = r.weight * redundancy;
-            (
-                libm::sqrt((ae * ae + an * an) / d),
-                au.abs() / libm::sqrt(d),
-            )
-        };
-        *s = Slope {
-            horizontal,
-            vertical,
-            redundancy,
-            gain_enu: [ae, an, au],
-        };
+        *s = slope_of(&inv, r);
     }
     Ok(())
+}
+
+/// The slopes of one row given the inverse normal matrix `inv` of the geometry it belongs to
+/// (built as [`slopes`] builds it).
+pub(crate) fn slope_of(inv: &Mat6, r: &SlopeRow) -> Slope {
+    let [e, n, u] = r.los_enu;
+    let mut v = [-e, -n, -u, 0.0, 0.0, 0.0];
+    if let Some(c) = v.get_mut(r.system.saturating_add(3)) {
+        *c = 1.0;
+    }
+    let mut a = [0.0; 6];
+    for (ai, row) in a.iter_mut().zip(inv) {
+        *ai = r.weight * row.iter().zip(&v).map(|(x, y)| x * y).sum::<f64>();
+    }
+    let p_ii: f64 = v.iter().zip(&a).map(|(x, y)| x * y).sum();
+    let [ae, an, au, ..] = a;
+    let redundancy = (1.0 - p_ii).max(0.0);
+    let (horizontal, vertical) = if redundancy < 1e-9 {
+        (f64::INFINITY, f64::INFINITY)
+    } else {
+        let d = r.weight * redundancy;
+        (
+            libm::sqrt((ae * ae + an * an) / d),
+            au.abs() / libm::sqrt(d),
+        )
+    };
+    Slope {
+        horizontal,
+        vertical,
+        redundancy,
+        gain_enu: [ae, an, au],
+    }
 }
 
 #[cfg(test)]

@@ -6,7 +6,7 @@
 
 use crate::corrections::site::{SatCorrection, SatInput};
 use crate::frames::{norm, sub};
-use crate::sat::System;
+use crate::sat::{SatId, System};
 use crate::snapshot::wls::sagnac;
 
 /// A screened observation: its index in the epoch, its satellite, what the stages made of it.
@@ -41,6 +41,13 @@ pub(crate) struct Candidate {
     pub clock_drift_mps: f64,
     /// Measured range rate −λ·D, m/s, when a plausible Doppler was reported.
     pub range_rate_mps: Option<f64>,
+    /// The satellite.
+    pub id: SatId,
+    /// C/N0, dB-Hz, when reported.
+    pub cn0_dbhz: Option<f32>,
+    /// Taken for a reflection (C/N0 far below what its elevation leads to expect): its
+    /// `cn0_factor` carries the extra σ.
+    pub reflection: bool,
 }
 
 impl Candidate {
@@ -89,6 +96,13 @@ pub(crate) enum Fate {
         /// Its normalised innovation squared.
         nis: f32,
     },
+    /// Excluded by the residual test this epoch.
+    Excluded {
+        /// Its normalised residual when it was identified.
+        statistic: f32,
+    },
+    /// Kept out after an earlier exclusion.
+    KeptOut,
 }
 
 /// What the corrections and the solution made of one measurement.
@@ -124,15 +138,30 @@ impl Outcome {
         self.fate == Fate::Masked
     }
 
+    /// Excluded by integrity, this epoch or earlier: no solution may use it.
+    pub fn excluded(&self) -> bool {
+        matches!(self.fate, Fate::Excluded { .. } | Fate::KeptOut)
+    }
+
+    /// The variance the residual and innovation tests assume, m²: the code σ model, the
+    /// signal-in-space error `ure_sigma_m` and what the atmosphere models leave. The tests
+    /// need all of them, where the least-squares weights only need the ratios.
+    pub fn test_variance(&self, ure_sigma_m: f64) -> f64 {
+        self.sigma_m * self.sigma_m + ure_sigma_m * ure_sigma_m + self.model_var_m2
+    }
+
     /// Takes the corrections of the satellite: elevation and azimuth, the mask (masked, or
     /// still to be solved), delay, σ and the atmosphere models' residual variance.
     pub fn correct(&mut self, k: &SatCorrection) {
         self.el_az = Some(k.el_az);
-        self.fate = if k.masked {
-            Fate::Masked
-        } else {
-            Fate::Pending
-        };
+        // An exclusion outlives the corrections computed again at a new position.
+        if !self.excluded() {
+            self.fate = if k.masked {
+                Fate::Masked
+            } else {
+                Fate::Pending
+            };
+        }
         self.delay_m = k.delay_m;
         self.sigma_m = k.sigma_m;
         self.model_var_m2 = k.model_var_m2;

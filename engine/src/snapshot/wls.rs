@@ -84,7 +84,7 @@ pub(crate) fn solve(meas: &mut [Measurement], setup: &Setup<'_>) -> Result<Fix, 
                 o.delay_m = 0.0;
                 o.sigma_m = 1.0;
             }
-            if o.masked() {
+            if o.masked() || o.excluded() {
                 continue;
             }
             let clock = clk.get(c.sys).copied().unwrap_or(0.0);

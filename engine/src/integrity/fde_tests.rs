@@ -1,0 +1,117 @@
+use super::*;
+use crate::measurements::record::Candidate;
+use crate::sat::SatId;
+
+/// Eight satellites in unit directions (ECEF-like, any frame will do for the test), one
+/// system, σ 2 m, residuals zero except `bias` on satellite `faulty`.
+fn epoch(bias: f64, faulty: usize) -> [Measurement; 8] {
+    let dirs: [[f64; 3]; 8] = [
+        [0.0, 0.0, 1.0],
+        [0.7, 0.0, 0.714],
+        [-0.7, 0.1, 0.707],
+        [0.1, 0.8, 0.59],
+        [0.0, -0.9, 0.436],
+        [0.6, 0.6, 0.529],
+        [-0.5, -0.6, 0.624],
+        [-0.8, 0.5, 0.332],
+    ];
+    core::array::from_fn(|i| {
+        let u = dirs[i];
+        let n = (u[0] * u[0] + u[1] * u[1] + u[2] * u[2]).sqrt();
+        Measurement {
+            index: i,
+            sat: Candidate {
+                pos: [0.0; 3],
+                clock_m: 0.0,
+                pr_m: 2.2e7,
+                sys: 0,
+                cn0_factor: 1.0,
+                iono_scale: 1.0,
+                vel: [0.0; 3],
+                clock_drift_mps: 0.0,
+                range_rate_mps: None,
+                id: SatId::gps(i as u8 + 1),
+                cn0_dbhz: None,
+                reflection: false,
+            },
+            out: Outcome {
+                fate: Fate::Used,
+                row: [-u[0] / n, -u[1] / n, -u[2] / n],
+                residual_m: if i == faulty { bias } else { 0.0 },
+                sigma_m: 2.0,
+                ..Outcome::default()
+            },
+        }
+    })
+}
+
+fn run(meas: &mut [Measurement], max_exclusions: u8) -> Verdict {
+    let mut table: Thresholds<8> = Thresholds::new();
+    residual_test(
+        meas,
+        Outcome::used,
+        &mut TestSetup {
+            table: &mut table,
+            false_alarm: 6.667e-5,
+            integrity_risk: 1e-3,
+            max_exclusions,
+            ure_sigma_m: 0.0,
+        },
+    )
+}
+
+/// A single bias b on satellite i makes the statistic b²(1 − h_ii)/σ² (the non-centrality
+/// of ncx2.rs; Brown 1992 \[M\]); the satellite is identified, excluded, and the test
+/// passes without it with nothing left.
+#[test]
+fn a_single_bias_is_found_and_excluded() {
+    for faulty in 0..8 {
+        let mut meas = epoch(40.0, faulty);
+        let v = run(&mut meas, 2);
+        assert_eq!(v.excluded, 1, "satellite {faulty}");
+        assert!(v.passed);
+        assert_eq!(v.dof, 3);
+        assert!(v.statistic < 1e-9, "{}", v.statistic);
+        assert!(matches!(meas[faulty].out.fate, Fate::Excluded { .. }));
+        // The identity: before the exclusion the statistic was b² r / σ² = stat².
+        let Fate::Excluded { statistic } = meas[faulty].out.fate else {
+            unreachable!()
+        };
+        let mut one = epoch(40.0, faulty);
+        let t = run(&mut one, 0);
+        assert!(!t.passed);
+        let s = f64::from(statistic);
+        assert!((s * s - t.statistic).abs() < 1e-4 * t.statistic);
+    }
+}
+
+/// A bias too small for the test passes; the test's dof is n − 4.
+#[test]
+fn a_small_bias_passes() {
+    let mut meas = epoch(3.0, 2);
+    let v = run(&mut meas, 2);
+    assert!(v.passed);
+    assert_eq!((v.dof, v.excluded), (4, 0));
+    assert!((v.threshold - 24.3914).abs() < 1e-3); // CHECKS.md, dof 4
+}
+
+/// With no exclusion allowed the test fails and says so; with four satellites (no
+/// redundancy) there is no test at all.
+#[test]
+fn failing_and_untestable() {
+    let mut meas = epoch(60.0, 5);
+    let v = run(&mut meas, 0);
+    assert!(!v.passed && v.excluded == 0);
+    let mut four = epoch(60.0, 1);
+    let v = run(&mut four[..4], 2);
+    assert_eq!(v.dof, 0);
+    assert!(!v.passed);
+}
+
+/// A NaN residual never passes.
+#[test]
+fn nan_never_passes() {
+    let mut meas = epoch(f64::NAN, 3);
+    let v = run(&mut meas, 0);
+    assert!(!v.passed);
+}

@@ -1,0 +1,106 @@
+//! What the signals themselves say: reflections (C/N0 far below what the elevation leads to
+//! expect) and the interference and spoofing indicators that look at all satellites at
+//! once. docs/integrity.md names the published method behind each.
+
+use crate::config::IntegrityConfig;
+use crate::frames::{norm, sub};
+use crate::measurements::record::Measurement;
+
+/// How much a line-of-sight signal gains from the horizon to the zenith, dB: the gain
+/// pattern of a tracker's patch antenna and the longer path through the atmosphere at low
+/// elevation, about 10–15 dB in total (from memory; common practice). The expectation is
+/// relative: each epoch's satellites set the receiver's own level.
+const ZENITH_GAIN_DB: f32 = 12.0;
+
+/// Fewest satellites with C/N0 for an epoch-wide judgement (a median, a mean, a spread).
+const MIN_SATS: usize = 4;
+
+/// Fewest satellites for the uniform-C/N0 indicator: a few genuine signals can be alike by
+/// chance.
+const MIN_UNIFORM_SATS: usize = 6;
+
+/// The lower median of up to 32 values (O(n²) comparisons: no sorting code).
+fn median(values: &[f32]) -> Option<f32> {
+    let half = values.len() / 2;
+    values.iter().copied().find(|&v| {
+        let below = values.iter().filter(|&&w| w < v).count();
+        let at_most = values.iter().filter(|&&w| w <= v).count();
+        below <= half && half < at_most
+    })
+}
+
+/// Marks as reflections the measurements whose C/N0 lies more than the configured margin
+/// below the epoch's level at their elevation, seen from `at` (ECEF, m; the last fix), and
+/// multiplies their σ factor. Returns how many.
+pub(crate) fn mark_reflections(
+    meas: &mut [Measurement],
+    at: [f64; 3],
+    cfg: &IntegrityConfig,
+) -> u8 {
+    let r = norm(at);
+    if r < 6.0e6 || cfg.reflection_sigma_factor <= 1.0 {
+        return 0;
+    }
+    // Geocentric up: within 0.2° of the ellipsoid's normal, ample for a C/N0 expectation.
+    let up = [at[0] / r, at[1] / r, at[2] / r];
+    let excess = |m: &Measurement| {
+        let c = m.sat.cn0_dbhz?;
+        let d = sub(m.sat.pos, at);
+        let sin_el = (d[0] * up[0] + d[1] * up[1] + d[2] * up[2]) / norm(d);
+        Some(c - ZENITH_GAIN_DB * sin_el.max(0.0) as f32)
+    };
+    let mut values: heapless::Vec<f32, 32> = heapless::Vec::new();
+    for v in meas.iter().filter_map(excess) {
+        let _ = values.push(v);
+    }
+    if values.len() < MIN_SATS {
+        return 0;
+    }
+    let Some(level) = median(&values) else {
+        return 0;
+    };
+    let limit = level - cfg.reflection_margin_db as f32;
+    let mut count = 0u8;
+    for m in meas.iter_mut() {
+        if excess(m).is_some_and(|e| e < limit) {
+            m.sat.reflection = true;
+            m.sat.cn0_factor *= cfg.reflection_sigma_factor as f32;
+            count = count.saturating_add(1);
+        }
+    }
+    count
+}
+
+/// The mean and the spread (largest minus smallest) of the C/N0 values, with their number.
+pub(crate) fn cn0_mean_spread(values: impl Iterator<Item = f32>) -> (f32, f32, usize) {
+    let (mut sum, mut lo, mut hi, mut n) = (0.0f32, f32::INFINITY, f32::NEG_INFINITY, 0usize);
+    for v in values.filter(|v| v.is_finite() && *v > 0.0) {
+        sum += v;
+        lo = lo.min(v);
+        hi = hi.max(v);
+        n = n.saturating_add(1);
+    }
+    if n == 0 {
+        return (f32::NAN, f32::NAN, 0);
+    }
+    (sum / n as f32, hi - lo, n)
+}
+
+/// Whether the C/N0 spread of `n` satellites is suspiciously small.
+pub(crate) fn uniform(spread_db: f32, n: usize, cfg: &IntegrityConfig) -> bool {
+    n >= MIN_UNIFORM_SATS && spread_db < cfg.uniform_cn0_db as f32
+}
+
+/// Whether a drop of the mean C/N0 over `n` satellites is jamming.
+pub(crate) fn jammed(drop_db: f32, n: usize, cfg: &IntegrityConfig) -> bool {
+    n >= MIN_SATS && drop_db > cfg.jamming_drop_db as f32
+}
+
+/// Whether a receiver clock re-seat of `shift_m` is not a whole millisecond step (to within
+/// 300 m, the bias a clock drift of up to 1 ppm adds over a second plus the prediction's
+/// spread): whole-millisecond steps are the receiver steering its clock, a receiver event.
+pub(crate) fn odd_clock_jump(shift_m: f64) -> bool {
+    const MS_M: f64 = crate::sat::SPEED_OF_LIGHT * 1e-3;
+    let ms = libm::round(shift_m / MS_M);
+    (shift_m - ms * MS_M).abs() > 300.0
+}

@@ -1,0 +1,94 @@
+//! What integrity remembers between epochs: the satellites kept out after an exclusion and
+//! the recent C/N0 level the jamming indicator compares with.
+
+use crate::measurements::record::{Fate, Measurement};
+use crate::sat::SatId;
+use crate::time::GnssTime;
+use heapless::Vec;
+
+/// Satellites kept out at once; a further exclusion replaces the one released soonest.
+const KEPT: usize = 4;
+
+/// Time constant of the recent C/N0 level, s: long against a jammer approaching within
+/// seconds, short against a satellite rising or setting (common practice for a slow
+/// reference level).
+const LEVEL_TIME_S: f64 = 30.0;
+
+/// A gap after which the recent C/N0 level starts afresh, s.
+const LEVEL_GAP_S: f64 = 60.0;
+
+/// Integrity's memory.
+#[derive(Clone, Debug, PartialEq)]
+pub(crate) struct Watch {
+    /// Satellites kept out, with the time they may be tested again.
+    kept: Vec<(SatId, GnssTime), KEPT>,
+    /// Recent mean C/N0, dB-Hz, and the time of its last update.
+    level: Option<(f32, GnssTime)>,
+}
+
+impl Watch {
+    /// Nothing remembered.
+    pub const fn new() -> Self {
+        Watch {
+            kept: Vec::new(),
+            level: None,
+        }
+    }
+
+    /// Marks [`Fate::KeptOut`] every measurement of a satellite still kept out at `t`, and
+    /// forgets the ones whose time is over (they are tested again).
+    pub fn keep_out(&mut self, meas: &mut [Measurement], t: GnssTime) {
+        self.kept.retain(|(_, until)| *until > t);
+        for m in meas.iter_mut() {
+            if self.kept.iter().any(|(s, _)| *s == m.sat.id) {
+                m.out.fate = Fate::KeptOut;
+            }
+        }
+    }
+
+    /// Remembers the satellites excluded this epoch (by the residual test, or refused by
+    /// the filter's gate beyond `limit`, the residual test's own one-degree threshold) until
+    /// `t + hold_s`.
+    pub fn remember(&mut self, meas: &[Measurement], t: GnssTime, hold_s: f64, limit: f64) {
+        let Some(hold) = crate::Duration::from_secs_f64(hold_s) else {
+            return;
+        };
+        let until = t.plus(hold);
+        for m in meas {
+            let out = match m.out.fate {
+                Fate::Excluded { .. } => true,
+                Fate::Gated { nis } => f64::from(nis) > limit,
+                _ => false,
+            };
+            if !out || hold_s <= 0.0 {
+                continue;
+            }
+            if let Some(e) = self.kept.iter_mut().find(|(s, _)| *s == m.sat.id) {
+                e.1 = until;
+            } else if self.kept.push((m.sat.id, until)).is_err() {
+                if let Some(e) = self.kept.iter_mut().min_by_key(|(_, u)| *u) {
+                    *e = (m.sat.id, until);
+                }
+            }
+        }
+    }
+
+    /// The drop of this epoch's mean C/N0 below the recent level, dB (0 when there is no
+    /// level yet), updating the level with the mean.
+    pub fn cn0_drop(&mut self, mean_dbhz: f32, t: GnssTime) -> f32 {
+        let (drop, level) = match self.level {
+            Some((level, at)) => {
+                let dt = t.since(at).as_secs_f64();
+                if dt > LEVEL_GAP_S {
+                    (0.0, mean_dbhz)
+                } else {
+                    let alpha = (dt / LEVEL_TIME_S).clamp(0.0, 1.0) as f32;
+                    (level - mean_dbhz, level + alpha * (mean_dbhz - level))
+                }
+            }
+            None => (0.0, mean_dbhz),
+        };
+        self.level = Some((level, t));
+        drop
+    }
+}
