@@ -246,12 +246,8 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         let mut integrity = self.assess(&result, &verdict, &meas);
         integrity.reflections = reflections;
         if icfg.enabled {
-            let one = self
-                .thresholds
-                .get(1, icfg.false_alarm, icfg.integrity_risk);
-            let limit = one.map_or(f64::INFINITY, |(x, _)| x);
-            self.watch.remember(&meas, t, icfg.exclusion_hold_s, limit);
-            integrity.flags = self.flags(epoch, &notes);
+            self.watch.remember(&meas, t, icfg.exclusion_hold_s);
+            integrity.flags = self.flags(epoch, &notes, &result);
         }
         let filter_event = notes.event;
         self.mark(&result, &meas, &mut sats);
@@ -456,9 +452,12 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         else {
             return out;
         };
+        let Some(k_md) = self.thresholds.k_md(c.false_alarm, c.integrity_risk) else {
+            return out;
+        };
         let frame = LocalFrame::new(fix.ecef_m, &fix.geodetic);
         let ure = self.config.filter.ure_sigma_m;
-        if let Some((h, v)) = protection_levels(meas, &frame, sqrt_lambda, ure) {
+        if let Some((h, v)) = protection_levels(meas, &frame, sqrt_lambda, k_md, ure) {
             out.hpl_m = Some(h as f32);
             out.vpl_m = Some(v as f32);
             out.state = if excluded > 0 {
@@ -471,7 +470,12 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
     }
 
     /// The interference and spoofing indicators of the epoch.
-    fn flags(&mut self, epoch: &Epoch<N>, notes: &Notes) -> Flags {
+    fn flags(
+        &mut self,
+        epoch: &Epoch<N>,
+        notes: &Notes,
+        result: &Result<Fix, NoFixReason>,
+    ) -> Flags {
         let c = self.config.integrity;
         let mut flags = Flags::default();
         let (mean, spread, n) = cn0_mean_spread(epoch.obs.iter().filter_map(|o| o.cn0_dbhz));
@@ -491,8 +495,12 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         {
             flags.insert(Flags::CLOCK_JUMP);
         }
-        if notes.event == FilterEvent::RestartedDiverged {
-            flags.insert(Flags::INCONSISTENT_MOTION);
+        if let (Ok(fix), Some(a)) = (result, self.anchor) {
+            let dt = epoch.time.since(a.time).as_secs_f64();
+            let moved = crate::frames::norm(crate::frames::sub(fix.ecef_m, a.ecef_m));
+            if signals::too_fast(moved, dt, &c) {
+                flags.insert(Flags::INCONSISTENT_MOTION);
+            }
         }
         if continuous && notes.moved_without_doppler {
             flags.insert(Flags::DOPPLER_MISMATCH);

@@ -309,8 +309,7 @@ impl Flags {
     pub const UNIFORM_CN0: Flags = Flags(2);
     /// The receiver clock jumped by an amount that is not a whole millisecond.
     pub const CLOCK_JUMP: Flags = Flags(4);
-    /// The measurements disagreed with the filter's prediction as a whole (the filter
-    /// restarted on divergence).
+    /// The fix moved farther from the last one than `integrity.max_speed_mps` allows.
     pub const INCONSISTENT_MOTION: Flags = Flags(8);
     /// The asset moved although its Doppler says it stands still.
     pub const DOPPLER_MISMATCH: Flags = Flags(16);

@@ -4,6 +4,7 @@
 
 pub mod data;
 pub mod export;
+pub mod faults;
 pub mod manifest;
 pub mod metrics;
 pub mod record;

@@ -2,6 +2,7 @@
 //! with its thresholds, in one TOML file (`host-tests/manifest.toml`). Rows run in parallel.
 
 use crate::data::{data_dir, report_skip, required, verify, REQUIRE_VAR};
+use crate::faults::{FaultFigures, FaultKind, FaultRow};
 use crate::metrics::Summary;
 use crate::record::EpochRecord;
 use crate::replay::{replay, Dataset, Truth};
@@ -41,6 +42,13 @@ pub struct Threshold {
     pub clock_step_m: Option<f64>,
     /// Horizontal error at the first updated fix after an outage, at most, m.
     pub post_outage_h_m: Option<f64>,
+    /// Epochs with an interference or spoofing flag, at most.
+    pub flagged_max: Option<f64>,
+    /// Epochs whose error exceeds its protection level, at most.
+    pub misleading_max: Option<f64>,
+    /// Satellite-epochs received by reflection that were down-weighted or kept out, at
+    /// least, %.
+    pub reflected_caught_min_pct: Option<f64>,
 }
 
 /// A synthetic row.
@@ -94,6 +102,18 @@ pub struct Manifest {
     /// Recorded rows.
     #[serde(default)]
     pub dataset: Vec<DatasetRow>,
+    /// Fault-injection Monte Carlo rows.
+    #[serde(default)]
+    pub integrity: Vec<FaultRow>,
+}
+
+/// One fault-injection row's outcome.
+#[derive(Clone, Debug)]
+pub struct FaultResult {
+    /// The row.
+    pub row: FaultRow,
+    /// What it measured, or why it could not run.
+    pub figures: Result<FaultFigures, String>,
 }
 
 /// One row's outcome, run twice: with the default configuration (the navigation filter)
@@ -142,6 +162,108 @@ impl Manifest {
         out.extend(self.dataset.par_iter().map(run_dataset).collect::<Vec<_>>());
         out
     }
+
+    /// Runs every fault-injection row (in parallel).
+    pub fn run_faults(&self) -> Vec<FaultResult> {
+        self.integrity
+            .par_iter()
+            .map(|row| FaultResult {
+                row: row.clone(),
+                figures: row.run(),
+            })
+            .collect()
+    }
+
+    /// Runs every row of every kind: the tables and whether every row passed.
+    pub fn run_tables(&self) -> (String, bool, Vec<RowResult>) {
+        let results = self.run();
+        let (mut text, ok) = table(&results);
+        let (faults, faults_ok) = fault_table(&self.run_faults());
+        text.push_str(&faults);
+        (text, ok && faults_ok, results)
+    }
+}
+
+/// The fault-injection table (Markdown) and whether every row passed.
+pub fn fault_table(results: &[FaultResult]) -> (String, bool) {
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        "\nFault injection (Monte Carlo, fixed seeds; host-tests/src/faults.rs): residual-test alarms against the binomial 99 % interval of the configured false-alarm probability, detection and right exclusions, epochs whose error exceeds the protection level against the binomial 99 % bound of the integrity risk, and the delay from an attack to its flag.\n"
+    );
+    let _ = writeln!(
+        s,
+        "| row | epochs | tested | alarms (99 % interval) | detected % | right exclusion % | error > PL (bound) | flag delay max s | clean-part flags |"
+    );
+    let _ = writeln!(s, "|---|---|---|---|---|---|---|---|---|");
+    let mut all_ok = true;
+    for r in results {
+        let f = match &r.figures {
+            Ok(f) => f,
+            Err(e) => {
+                all_ok = false;
+                let _ = writeln!(s, "| {} | **ERROR** {e} | | | | | | | |", r.row.name);
+                continue;
+            }
+        };
+        let t = &r.row.threshold;
+        let ok = f.passes(t);
+        all_ok &= ok;
+        let test_row = matches!(r.row.kind, FaultKind::FaultFree | FaultKind::Bias);
+        let dash = || "–".to_string();
+        let (alarms, detected, right, bounded) = if test_row {
+            (
+                format!(
+                    "{} ({}–{})",
+                    f.alarms, f.alarm_interval.0, f.alarm_interval.1
+                ),
+                cell(f.detection_pct(), t.detection_min_pct, true, 2).0,
+                cell(f.exclusion_pct(), t.exclusion_min_pct, true, 2).0,
+                format!(
+                    "{} of {} (≤ {})",
+                    f.misleading, f.protected, f.misleading_bound
+                ),
+            )
+        } else {
+            (dash(), dash(), dash(), dash())
+        };
+        let (detected, delay, clean) = if test_row {
+            (detected, dash(), dash())
+        } else if matches!(r.row.kind, FaultKind::TrackedBias | FaultKind::TrackedRamp) {
+            (
+                cell(f.detection_pct(), t.detection_min_pct, true, 2).0,
+                format!(
+                    "median {:.0}; {}",
+                    f.delay_median_s(),
+                    cell(f.delay_max_s(), t.delay_max_s, false, 0).0
+                ),
+                cell(f.clean_flags as f64, t.clean_flags_max, false, 0).0,
+            )
+        } else {
+            (
+                detected,
+                cell(f.delay_max_s(), t.delay_max_s, false, 0).0,
+                cell(f.clean_flags as f64, t.clean_flags_max, false, 0).0,
+            )
+        };
+        let (_delay, _clean) = if test_row {
+            (dash(), dash())
+        } else {
+            (
+                cell(f.delay_max_s(), t.delay_max_s, false, 0).0,
+                cell(f.clean_flags as f64, t.clean_flags_max, false, 0).0,
+            )
+        };
+        let mark = if ok { "" } else { " **FAIL**" };
+        let _ = writeln!(
+            s,
+            "| {}{mark} | {} | {} | {alarms} | {detected} | {right} | {bounded} | {delay} | {clean} |",
+            r.row.name,
+            f.epochs,
+            if test_row { f.tested.to_string() } else { dash() },
+        );
+    }
+    (s, all_ok)
 }
 
 /// The engine configuration for a row: defaults with only the listed systems on.
@@ -321,6 +443,43 @@ pub fn table(results: &[RowResult]) -> (String, bool) {
                     .collect::<Vec<_>>()
                     .join(" | ")
             );
+        }
+    }
+    let _ = writeln!(
+        s,
+        "\nIntegrity, both runs: share of epochs per state, epochs with an interference or spoofing flag, the median horizontal protection level, epochs whose error exceeds its protection level (of those with a level), and the share of reflected satellite-epochs caught (synthetic canyon truth).\n"
+    );
+    let _ = writeln!(
+        s,
+        "| row | run | verified / excluded / unavailable / alert % | flagged epochs | HPL 50 % m | error > PL | reflections caught % |"
+    );
+    let _ = writeln!(s, "|---|---|---|---|---|---|---|");
+    for r in results {
+        for (run, outcome, t) in [
+            ("filtered", &r.outcome, &r.threshold),
+            ("snapshot", &r.snapshot, &r.snapshot_threshold),
+        ] {
+            if let RowOutcome::Ran(m) = outcome {
+                let i = &m.integrity;
+                let cells = [
+                    cell(i.flagged as f64, t.flagged_max, false, 0),
+                    cell(i.hpl50_m.unwrap_or(f64::NAN), None, false, 1),
+                    cell(i.misleading as f64, t.misleading_max, false, 0),
+                    cell(
+                        i.reflected_caught_pct.unwrap_or(f64::NAN),
+                        t.reflected_caught_min_pct,
+                        true,
+                        1,
+                    ),
+                ];
+                all_ok &= cells.iter().all(|c| c.1);
+                let shares = i.shares_pct().map(|p| format!("{p:.1}")).join(" / ");
+                let _ = writeln!(
+                    s,
+                    "| {} | {run} | {shares} | {} | {} | {} of {} | {} |",
+                    r.name, cells[0].0, cells[1].0, cells[2].0, i.bounded_epochs, cells[3].0
+                );
+            }
         }
     }
     (s, all_ok)

@@ -85,6 +85,87 @@ pub struct Summary {
     pub velocity_error: Stats,
     /// What the navigation filter made of the run.
     pub filter: FilterFigures,
+    /// What integrity made of the run.
+    pub integrity: IntegrityFigures,
+}
+
+/// Integrity over a run.
+#[derive(Clone, Debug, Default)]
+pub struct IntegrityFigures {
+    /// Epochs per state: verified, fault excluded, unavailable, alert.
+    pub states: [usize; 4],
+    /// Epochs with any interference or spoofing flag raised.
+    pub flagged: usize,
+    /// Median horizontal protection level over the epochs that have one, m.
+    pub hpl50_m: Option<f64>,
+    /// Epochs with a protection level and a truth.
+    pub bounded_epochs: usize,
+    /// Of those, epochs whose horizontal or vertical error exceeds its protection level
+    /// (misleading information).
+    pub misleading: usize,
+    /// Satellite-epochs received only by reflection (synthetic truth).
+    pub reflected: usize,
+    /// Of those, the ones the engine down-weighted or kept out of the fix (reflection,
+    /// excluded, kept out, gated), %.
+    pub reflected_caught_pct: Option<f64>,
+}
+
+impl IntegrityFigures {
+    /// The figures of a run.
+    pub fn of(records: &[EpochRecord]) -> IntegrityFigures {
+        use trackfix_engine::{IntegrityState, SatStatus};
+        let mut f = IntegrityFigures::default();
+        let mut hpl = Vec::new();
+        let mut caught = 0usize;
+        for r in records {
+            let i = &r.integrity;
+            let k = match i.state {
+                IntegrityState::Verified => 0,
+                IntegrityState::FaultExcluded => 1,
+                IntegrityState::Alert => 3,
+                _ => 2,
+            };
+            f.states[k] += 1;
+            f.flagged += usize::from(!i.flags.is_empty());
+            if let (Some(h), Some(v)) = (i.hpl_m, i.vpl_m) {
+                hpl.push(f64::from(h));
+                if let Some(e) = r.fix.and_then(|x| x.enu_error_m) {
+                    f.bounded_epochs += 1;
+                    let over = e[0].hypot(e[1]) > f64::from(h) || e[2].abs() > f64::from(v);
+                    f.misleading += usize::from(over);
+                }
+            }
+            for sat in &r.reflected_truth {
+                f.reflected += 1;
+                caught += usize::from(r.sats.iter().any(|s| {
+                    s.sat == *sat
+                        && (s.reflection
+                            || matches!(
+                                s.status,
+                                SatStatus::Excluded { .. }
+                                    | SatStatus::KeptOut
+                                    | SatStatus::Gated { .. }
+                            ))
+                }));
+            }
+        }
+        f.hpl50_m = (!hpl.is_empty()).then(|| Stats::of(&hpl).p50);
+        f.reflected_caught_pct =
+            (f.reflected > 0).then(|| 100.0 * caught as f64 / f.reflected as f64);
+        f
+    }
+
+    /// The share of epochs per state, %.
+    pub fn shares_pct(&self) -> [f64; 4] {
+        let n: usize = self.states.iter().sum();
+        self.states.map(|k| {
+            if n == 0 {
+                0.0
+            } else {
+                100.0 * k as f64 / n as f64
+            }
+        })
+    }
 }
 
 /// The navigation filter's figures over a run.
@@ -303,6 +384,7 @@ impl Summary {
             residual_rms_by_sat,
             velocity_error: Stats::of(&vel),
             filter: FilterFigures::of(records),
+            integrity: IntegrityFigures::of(records),
         }
     }
 }

@@ -2,8 +2,8 @@
 //! every metric, plot and export.
 
 use trackfix_engine::{
-    FilterEvent, FixKind, FixOutcome, FixSource, GnssTime, IonoCorrection, LocalFrame, NoFixReason,
-    SatId, SatStatus, Solution,
+    FilterEvent, FixKind, FixOutcome, FixSource, GnssTime, Integrity, IonoCorrection, LocalFrame,
+    NoFixReason, SatId, SatStatus, Solution,
 };
 
 /// A fix, reduced to what metrics and reports use.
@@ -50,6 +50,8 @@ pub struct SatSummary {
     pub residual_m: Option<f32>,
     /// Status.
     pub status: SatStatus,
+    /// Taken for a reflection and down-weighted.
+    pub reflection: bool,
 }
 
 /// One epoch of a run.
@@ -69,6 +71,10 @@ pub struct EpochRecord {
     pub truth_velocity_ecef_mps: Option<[f64; 3]>,
     /// What the navigation filter did besides its usual step.
     pub filter_event: FilterEvent,
+    /// The fix's integrity: state, protection levels, indicators.
+    pub integrity: Integrity,
+    /// Satellites received only by reflection, when a synthetic scenario knows it.
+    pub reflected_truth: Vec<SatId>,
     /// Per satellite.
     pub sats: Vec<SatSummary>,
 }
@@ -88,6 +94,7 @@ impl EpochRecord {
                 el_az_deg: s.elevation_deg.zip(s.azimuth_deg),
                 residual_m: s.residual_m.map(|r| r as f32),
                 status: s.status,
+                reflection: s.reflection,
             })
             .collect::<Vec<_>>();
         let (fix, no_fix) = match &sol.outcome {
@@ -141,6 +148,8 @@ impl EpochRecord {
             wake_start,
             truth_velocity_ecef_mps: None,
             filter_event: sol.filter_event,
+            integrity: sol.integrity,
+            reflected_truth: Vec::new(),
             sats,
         }
     }

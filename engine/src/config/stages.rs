@@ -415,6 +415,11 @@ pub struct IntegrityConfig {
     /// Spread of C/N0 across at least six satellites below which the signals look like one
     /// transmitter's (the spoofing flag), dB. Default 1.5 dB. Range 0–10 dB.
     pub uniform_cn0_db: f64,
+    /// Top speed of the asset, m/s: a fix farther from the last one than this speed allows
+    /// (plus 200 m for the error of the two fixes) raises the inconsistent-motion flag.
+    /// Default 100 m/s (360 km/h: beyond any road or rail vehicle; raise it for air
+    /// freight). Range 1–1,000 m/s.
+    pub max_speed_mps: f64,
 }
 
 impl IntegrityConfig {
@@ -429,6 +434,7 @@ impl IntegrityConfig {
         reflection_sigma_factor: 4.0,
         jamming_drop_db: 6.0,
         uniform_cn0_db: 1.5,
+        max_speed_mps: 100.0,
     };
 }
 

@@ -254,6 +254,7 @@ impl Config {
             100.0,
         )?;
         range("integrity.jamming_drop_db", i.jamming_drop_db, 1.0, 40.0)?;
-        range("integrity.uniform_cn0_db", i.uniform_cn0_db, 0.0, 10.0)
+        range("integrity.uniform_cn0_db", i.uniform_cn0_db, 0.0, 10.0)?;
+        range("integrity.max_speed_mps", i.max_speed_mps, 1.0, 1_000.0)
     }
 }

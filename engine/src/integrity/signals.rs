@@ -104,3 +104,13 @@ pub(crate) fn odd_clock_jump(shift_m: f64) -> bool {
     let ms = libm::round(shift_m / MS_M);
     (shift_m - ms * MS_M).abs() > 300.0
 }
+
+/// Margin of [`too_fast`] for the error of two fixes, m (a few times a snapshot fix's 95 %
+/// error in a street canyon).
+const JUMP_MARGIN_M: f64 = 200.0;
+
+/// Whether moving `moved_m` in `dt_s` seconds is beyond the configured top speed (plus a
+/// margin for the error of the two fixes).
+pub(crate) fn too_fast(moved_m: f64, dt_s: f64, cfg: &IntegrityConfig) -> bool {
+    moved_m > cfg.max_speed_mps * dt_s.max(0.0) + JUMP_MARGIN_M
+}

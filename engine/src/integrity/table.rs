@@ -20,6 +20,8 @@ pub(crate) struct Thresholds<const N: usize> {
     threshold: [f32; N],
     /// `√λ` per dof − 1; NaN until computed (or when no λ reaches the risk).
     sqrt_lambda: [f32; N],
+    /// The two-sided normal quantile of the integrity risk; NaN until computed.
+    k_md: f32,
 }
 
 impl<const N: usize> Thresholds<N> {
@@ -30,12 +32,22 @@ impl<const N: usize> Thresholds<N> {
             integrity_risk: f64::NAN,
             threshold: [f32::NAN; N],
             sqrt_lambda: [f32::NAN; N],
+            k_md: f32::NAN,
         }
     }
 
-    /// The threshold χ²(dof) at `false_alarm` and the detectable `√λ` at `integrity_risk`;
-    /// `None` for a dof of 0 or above `N`, or probabilities the search cannot meet.
-    pub fn get(&mut self, dof: usize, false_alarm: f64, integrity_risk: f64) -> Option<(f64, f64)> {
+    /// The two-sided normal quantile `K` with `P(|z| > K) = integrity_risk`: `√` of the
+    /// χ²(1) quantile (the square of a unit normal is χ²(1)); `None` outside (0, 1).
+    pub fn k_md(&mut self, false_alarm: f64, integrity_risk: f64) -> Option<f64> {
+        self.reset_for(false_alarm, integrity_risk);
+        if self.k_md.is_nan() {
+            self.k_md = isf(integrity_risk, 1).map_or(f32::NAN, |x| libm::sqrt(x) as f32);
+        }
+        self.k_md.is_finite().then(|| f64::from(self.k_md))
+    }
+
+    /// Empties the table when the probabilities changed.
+    fn reset_for(&mut self, false_alarm: f64, integrity_risk: f64) {
         if self.false_alarm.to_bits() != false_alarm.to_bits()
             || self.integrity_risk.to_bits() != integrity_risk.to_bits()
         {
@@ -43,6 +55,12 @@ impl<const N: usize> Thresholds<N> {
             self.false_alarm = false_alarm;
             self.integrity_risk = integrity_risk;
         }
+    }
+
+    /// The threshold χ²(dof) at `false_alarm` and the detectable `√λ` at `integrity_risk`;
+    /// `None` for a dof of 0 or above `N`, or probabilities the search cannot meet.
+    pub fn get(&mut self, dof: usize, false_alarm: f64, integrity_risk: f64) -> Option<(f64, f64)> {
+        self.reset_for(false_alarm, integrity_risk);
         let k = dof.checked_sub(1)?;
         let (t, l) = (self.threshold.get_mut(k)?, self.sqrt_lambda.get_mut(k)?);
         if t.is_nan() {

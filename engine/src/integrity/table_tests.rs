@@ -29,3 +29,12 @@ fn outside_the_table_is_none() {
     assert!(table.get(5, 1e-3, 1e-3).is_none());
     assert!(table.get(2, f64::NAN, 1e-3).is_none());
 }
+
+/// The two-sided normal quantile of 1e-3 is 3.2905 (scipy.stats.norm.isf(5e-4); normal
+/// tables \[M\]).
+#[test]
+fn normal_quantile_of_the_integrity_risk() {
+    let mut table: Thresholds<4> = Thresholds::new();
+    let k = table.k_md(1e-3, 1e-3).unwrap();
+    assert!((k - 3.2905).abs() < 1e-4, "{k}");
+}

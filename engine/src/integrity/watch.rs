@@ -46,21 +46,17 @@ impl Watch {
         }
     }
 
-    /// Remembers the satellites excluded this epoch (by the residual test, or refused by
-    /// the filter's gate beyond `limit`, the residual test's own one-degree threshold) until
-    /// `t + hold_s`.
-    pub fn remember(&mut self, meas: &[Measurement], t: GnssTime, hold_s: f64, limit: f64) {
+    /// Remembers the satellites the residual test excluded this epoch until `t + hold_s`.
+    /// (A pseudorange the filter's gate refuses is tested again at the next epoch: a gate
+    /// refusal is often one multipath spike, and a satellite kept out for it would be lost
+    /// for nothing.)
+    pub fn remember(&mut self, meas: &[Measurement], t: GnssTime, hold_s: f64) {
         let Some(hold) = crate::Duration::from_secs_f64(hold_s) else {
             return;
         };
         let until = t.plus(hold);
         for m in meas {
-            let out = match m.out.fate {
-                Fate::Excluded { .. } => true,
-                Fate::Gated { nis } => f64::from(nis) > limit,
-                _ => false,
-            };
-            if !out || hold_s <= 0.0 {
+            if !matches!(m.out.fate, Fate::Excluded { .. }) || hold_s <= 0.0 {
                 continue;
             }
             if let Some(e) = self.kept.iter_mut().find(|(s, _)| *s == m.sat.id) {

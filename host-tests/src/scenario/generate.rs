@@ -36,6 +36,9 @@ pub struct GenEpoch {
     pub wake_start: bool,
     /// Ephemerides that became available to the tracker at this epoch, in broadcast order.
     pub new_ephemerides: Vec<BroadcastEphemeris>,
+    /// Satellites received only by reflection (NLOS) at this epoch: the truth the
+    /// reflection figures are measured against.
+    pub reflected: Vec<SatId>,
 }
 
 /// Slowly varying per-satellite error state.
@@ -331,8 +334,9 @@ impl Generator {
             }
         }
         let mut epoch = Epoch::new(tag);
+        let mut reflected = Vec::new();
         if receiving {
-            self.observe_all(&mut epoch, t_true, s, &kin);
+            self.observe_all(&mut epoch, &mut reflected, t_true, s, &kin);
         }
         GenEpoch {
             epoch,
@@ -340,12 +344,14 @@ impl Generator {
             truth_velocity_ecef: velocity_ecef(&kin),
             wake_start,
             new_ephemerides,
+            reflected,
         }
     }
 
     fn observe_all(
         &mut self,
         epoch: &mut Epoch<GEN_N>,
+        reflected: &mut Vec<SatId>,
         t_true: GnssTime,
         s: f64,
         kin: &super::motion::Kinematics,
@@ -429,6 +435,9 @@ impl Generator {
                 common + iono_l1 * clock::iono_scale_from_l1(signal) + sigma * draw(),
             );
             o.cn0_dbhz = Some(cn0 as f32);
+            if nlos > 0.0 {
+                reflected.push(eph.sat);
+            }
             let unit_draw = unit.map_or(0.0, |n| n.sample(&mut self.doppler_rng));
             let noise = errs.doppler_sigma_mps * 10f64.powf((45.0 - cn0) / 20.0) * unit_draw;
             o.doppler_hz = Some(-(rate + noise) * clock::frequency_hz(signal) / SPEED_OF_LIGHT);

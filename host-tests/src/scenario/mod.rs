@@ -47,6 +47,7 @@ pub fn run_mutated(
         if let Ok(sol) = engine.process(&g.epoch) {
             let mut record = EpochRecord::from_solution(&sol, Some(g.truth_ecef), g.wake_start);
             record.truth_velocity_ecef_mps = Some(g.truth_velocity_ecef);
+            record.reflected_truth = g.reflected;
             out.push(record);
         }
     }

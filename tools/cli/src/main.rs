@@ -15,7 +15,7 @@ use std::process::ExitCode;
 use std::time::{Duration, Instant};
 use trackfix_engine::config::FilterMode;
 use trackfix_engine::{Config, System};
-use trackfix_harness::manifest::{config_for, splice, table, Manifest, MANIFEST};
+use trackfix_harness::manifest::{config_for, splice, Manifest, MANIFEST};
 use trackfix_harness::metrics::Summary;
 use trackfix_harness::record::EpochRecord;
 use trackfix_harness::replay::{read_truth_csv, replay_with_progress, Dataset, Truth};
@@ -429,7 +429,7 @@ fn report_cmd(row: &str, out: &Path, snapshot_only: bool) -> Result<(), String> 
 fn manifest_cmd(write_docs: bool) -> Result<(), String> {
     let root = root();
     let m = Manifest::read(&root.join(MANIFEST))?;
-    let (text, ok) = table(&m.run());
+    let (text, ok, _) = m.run_tables();
     println!("{text}");
     if write_docs {
         let path = root.join("docs/accuracy.md");
