@@ -3,10 +3,9 @@
 
 use crate::config::{Config, ConfigError, FilterMode};
 use crate::corrections::iono::IonoCoefficients;
-use crate::filter::track::{self, Context, Notes, Step, Tracked};
+use crate::filter::track::{self, Context, Notes, Tracked};
 use crate::frames::LocalFrame;
-use crate::integrity::fde::{residual_test, TestSetup, Verdict};
-use crate::integrity::protect::protection_levels;
+use crate::integrity::fde::{check, TestSetup, Verdict};
 use crate::integrity::signals::{self, cn0_mean_spread};
 use crate::integrity::table::Thresholds;
 use crate::integrity::watch::Watch;
@@ -52,6 +51,14 @@ pub enum InputError {
         /// The height found, m.
         height_m: f64,
     },
+}
+
+/// What solving an epoch gave: the fix (or why none), what the filter noticed and what the
+/// residual test found.
+struct Solved {
+    result: Result<Fix, NoFixReason>,
+    notes: Notes,
+    verdict: Verdict,
 }
 
 /// The last 3-D fix, kept to seed the next solution and to hold height for a 2-D fix.
@@ -242,7 +249,17 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         if icfg.enabled {
             self.watch.keep_out(&mut meas, t);
         }
-        let (result, notes, verdict) = self.solve_epoch(t, &mut meas);
+        let mut solved = Solved {
+            result: Err(NoFixReason::NoConvergence),
+            notes: Notes::default(),
+            verdict: Verdict::default(),
+        };
+        self.solve_epoch(t, &mut meas, &mut solved);
+        let Solved {
+            result,
+            notes,
+            verdict,
+        } = solved;
         let mut integrity = self.assess(&result, &verdict, &meas);
         integrity.reflections = reflections;
         if icfg.enabled {
@@ -319,11 +336,12 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         }
         let state = held.state_at_transmit(t_rx, pr);
         let clock_s = state.clock_s - held.eph.group_delay_s(obs.signal);
-        // σ grows as √(10^(deficit/10)) = 10^(deficit/20); single precision is ample for a
-        // weight.
+        // σ grows as √(10^(deficit/10)) = 10^(deficit/20) = e^(deficit·ln 10/20); single
+        // precision is ample for a weight (and `expf` is the float library's exponential the
+        // target links anyway, where `powf` would add 700 B).
         let cn0_factor = cn0.map_or(1.0, |c| {
             let deficit = (cfg.snapshot.cn0_reference_dbhz - c).max(0.0);
-            libm::powf(10.0, deficit / 20.0)
+            libm::expf(deficit * (core::f32::consts::LN_10 / 20.0))
         });
         Ok(Candidate {
             pos: state.pos,
@@ -341,18 +359,16 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         })
     }
 
-    /// The epoch's fix: the navigation filter's while it tracks; otherwise the least-squares
-    /// solution, which (in tracking mode) starts the filter. Also says what the filter
-    /// noticed and what the residual test found.
-    fn solve_epoch(
-        &mut self,
-        t: GnssTime,
-        meas: &mut [Measurement],
-    ) -> (Result<Fix, NoFixReason>, Notes, Verdict) {
+    /// The epoch's fix, into `out`: the navigation filter's while it tracks; otherwise the
+    /// least-squares solution, which (in tracking mode) starts the filter. Also what the
+    /// filter noticed and what the residual test found. (Written in place: a fix is half a
+    /// kilobyte, and this frame sits under the filter's.)
+    #[inline(never)]
+    fn solve_epoch(&mut self, t: GnssTime, meas: &mut [Measurement], out: &mut Solved) {
         if self.config.filter.mode != FilterMode::Tracking {
             self.tracked = None;
-            let (result, verdict) = self.checked_snapshot(t, meas);
-            return (result, Notes::default(), verdict);
+            self.checked_snapshot(t, meas, out);
+            return;
         }
         let ctx = Context {
             cfg: &self.config,
@@ -364,10 +380,14 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             Ok(predicted) => {
                 // The residual test on the innovations, before the update uses them.
                 let pending = |o: &Outcome| o.fate == Fate::Pending;
-                let verdict = test(&mut self.thresholds, &self.config, meas, pending);
-                match track::update(&mut self.tracked, &ctx, meas, predicted) {
-                    Step::Fix(fix, notes) => return (Ok(fix), notes, verdict),
-                    Step::Lost(event) => event,
+                let frame = predicted.frame();
+                out.verdict = test(&mut self.thresholds, &self.config, meas, pending, frame);
+                match track::update(&mut self.tracked, &ctx, meas, predicted, &mut out.result) {
+                    Ok(notes) => {
+                        out.notes = notes;
+                        return;
+                    }
+                    Err(event) => event,
                 }
             }
             Err(event) => event,
@@ -379,48 +399,49 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
                 m.out.fate = Fate::KeptOut;
             }
         }
-        let (result, verdict) = self.checked_snapshot(t, meas);
-        self.tracked = result.as_ref().ok().and_then(|fix| track::start(fix, t));
-        let event = match (event, &self.tracked) {
+        self.checked_snapshot(t, meas, out);
+        match &out.result {
+            Ok(fix) => track::start(&mut self.tracked, fix, t),
+            Err(_) => self.tracked = None,
+        }
+        out.notes.event = match (event, &self.tracked) {
             (FilterEvent::Started, None) => FilterEvent::None,
             (FilterEvent::CoastEnded, _) | (_, None) => event,
             (FilterEvent::None, Some(_)) => FilterEvent::Started,
             (e, Some(_)) => e,
         };
-        let notes = Notes {
-            event,
-            ..Notes::default()
-        };
-        (result, notes, verdict)
     }
 
-    /// The least-squares solution with the residual test: after an exclusion, solved once
-    /// more without the excluded satellites, from the first solution's position.
-    fn checked_snapshot(
-        &mut self,
-        t: GnssTime,
-        meas: &mut [Measurement],
-    ) -> (Result<Fix, NoFixReason>, Verdict) {
-        let first = self.snapshot(t, meas, None);
-        let Ok(fix) = &first else {
-            return (first, Verdict::default());
+    /// The least-squares solution with the residual test, into `out`: after an exclusion,
+    /// solved once more without the excluded satellites, from the first solution's position.
+    #[inline(never)]
+    fn checked_snapshot(&mut self, t: GnssTime, meas: &mut [Measurement], out: &mut Solved) {
+        out.result = self.snapshot(t, meas, None);
+        let Ok(fix) = &out.result else {
+            return;
         };
-        let verdict = test(&mut self.thresholds, &self.config, meas, Outcome::used);
-        if verdict.excluded == 0 {
-            return (first, verdict);
+        let frame = LocalFrame::new(fix.ecef_m, &fix.geodetic);
+        let seed = fix.ecef_m;
+        out.verdict = test(
+            &mut self.thresholds,
+            &self.config,
+            meas,
+            Outcome::used,
+            &frame,
+        );
+        if out.verdict.excluded > 0 {
+            out.result = self.snapshot(t, meas, Some(seed));
         }
-        (self.snapshot(t, meas, Some(fix.ecef_m)), verdict)
     }
 
     /// The integrity of the epoch's fix: its state and protection levels from the residual
-    /// test's verdict and the measurements the fix used.
+    /// test's verdict.
     fn assess(
-        &mut self,
+        &self,
         result: &Result<Fix, NoFixReason>,
         verdict: &Verdict,
         meas: &[Measurement],
     ) -> Integrity {
-        let c = self.config.integrity;
         let excluded = meas.iter().filter(|m| m.out.excluded()).count();
         let mut out = Integrity {
             statistic: verdict.statistic as f32,
@@ -432,32 +453,15 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         let Ok(fix) = result else {
             return out;
         };
-        if !c.enabled || fix.source == FixSource::Predicted || verdict.dof == 0 {
+        if !self.config.integrity.enabled || fix.source == FixSource::Predicted || verdict.dof == 0
+        {
             return out;
         }
         if !verdict.passed {
             out.state = IntegrityState::Alert;
             return out;
         }
-        // The bound belongs to the measurements the fix used, with their own redundancy.
-        let mut present = [false; 3];
-        for m in meas.iter().filter(|m| m.out.used()) {
-            if let Some(p) = present.get_mut(m.sat.sys) {
-                *p = true;
-            }
-        }
-        let unknowns = 3 + present.iter().filter(|p| **p).count();
-        let dof = usize::from(fix.used).saturating_sub(unknowns);
-        let Some((_, sqrt_lambda)) = self.thresholds.get(dof, c.false_alarm, c.integrity_risk)
-        else {
-            return out;
-        };
-        let Some(k_md) = self.thresholds.k_md(c.false_alarm, c.integrity_risk) else {
-            return out;
-        };
-        let frame = LocalFrame::new(fix.ecef_m, &fix.geodetic);
-        let ure = self.config.filter.ure_sigma_m;
-        if let Some((h, v)) = protection_levels(meas, &frame, sqrt_lambda, k_md, ure) {
+        if let Some((h, v)) = verdict.levels {
             out.hpl_m = Some(h as f32);
             out.vpl_m = Some(v as f32);
             out.state = if excluded > 0 {
@@ -470,6 +474,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
     }
 
     /// The interference and spoofing indicators of the epoch.
+    #[inline(never)]
     fn flags(
         &mut self,
         epoch: &Epoch<N>,
@@ -592,15 +597,17 @@ fn test<const N: usize>(
     config: &Config,
     meas: &mut [Measurement],
     tested: fn(&Outcome) -> bool,
+    frame: &LocalFrame,
 ) -> Verdict {
     let c = &config.integrity;
     if !c.enabled {
         return Verdict::default();
     }
-    residual_test(
+    check(
         meas,
         tested,
         &mut TestSetup {
+            frame,
             table: thresholds,
             false_alarm: c.false_alarm,
             integrity_risk: c.integrity_risk,

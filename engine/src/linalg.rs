@@ -18,18 +18,68 @@ pub type Mat<const D: usize> = [[f64; D]; D];
 /// A 6×6 matrix, row-major (the position solution's size).
 pub type Mat6 = Mat<6>;
 
-fn at<const D: usize>(m: &Mat<D>, i: usize, j: usize) -> f64 {
-    m.get(i).and_then(|r| r.get(j)).copied().unwrap_or(0.0)
+/// The precisions the in-place kernels run in: f64 everywhere a range or a position is
+/// solved, f32 for the integrity geometry (fde.rs shows the loss negligible there, and the
+/// Cortex-M4F computes f32 in hardware).
+pub trait Scalar:
+    Copy
+    + PartialOrd
+    + core::ops::Add<Output = Self>
+    + core::ops::Sub<Output = Self>
+    + core::ops::Mul<Output = Self>
+    + core::ops::Div<Output = Self>
+    + core::ops::Neg<Output = Self>
+    + core::ops::AddAssign
+    + core::ops::SubAssign
+{
+    /// 0.
+    const ZERO: Self;
+    /// 1.
+    const ONE: Self;
+    /// The square root.
+    fn sqrt(self) -> Self;
+    /// Neither NaN nor infinite.
+    fn finite(self) -> bool;
 }
 
-fn set<const D: usize>(m: &mut Mat<D>, i: usize, j: usize, v: f64) {
+impl Scalar for f64 {
+    const ZERO: Self = 0.0;
+    const ONE: Self = 1.0;
+    fn sqrt(self) -> Self {
+        libm::sqrt(self)
+    }
+    fn finite(self) -> bool {
+        self.is_finite()
+    }
+}
+
+impl Scalar for f32 {
+    const ZERO: Self = 0.0;
+    const ONE: Self = 1.0;
+    fn sqrt(self) -> Self {
+        libm::sqrtf(self)
+    }
+    fn finite(self) -> bool {
+        self.is_finite()
+    }
+}
+
+fn at<T: Scalar, const D: usize>(m: &[[T; D]; D], i: usize, j: usize) -> T {
+    m.get(i).and_then(|r| r.get(j)).copied().unwrap_or(T::ZERO)
+}
+
+fn set<T: Scalar, const D: usize>(m: &mut [[T; D]; D], i: usize, j: usize, v: T) {
     if let Some(x) = m.get_mut(i).and_then(|r| r.get_mut(j)) {
         *x = v;
     }
 }
 
 /// Adds `v` to element (i, j); indices outside the matrix are ignored.
-pub fn add<const D: usize>(m: &mut Mat<D>, i: usize, j: usize, v: f64) {
+#[expect(
+    clippy::arithmetic_side_effects,
+    reason = "T is f32 or f64 (Scalar's only implementations): float arithmetic cannot panic"
+)]
+pub fn add<T: Scalar, const D: usize>(m: &mut [[T; D]; D], i: usize, j: usize, v: T) {
     if let Some(x) = m.get_mut(i).and_then(|r| r.get_mut(j)) {
         *x += v;
     }
@@ -94,15 +144,22 @@ impl<const D: usize> Cholesky<D> {
 /// triangle is left as it was and never read), so no second matrix is on the stack. `false`
 /// when a pivot is not positive and finite (not positive definite, or NaN); `a` is then
 /// partly overwritten.
-pub fn factor_in_place<const D: usize>(a: &mut Mat<D>) -> bool {
-    factor_in_place_with_margin(a, 0.0)
+pub fn factor_in_place<T: Scalar, const D: usize>(a: &mut [[T; D]; D]) -> bool {
+    factor_in_place_with_margin(a, T::ZERO)
 }
 
 /// As [`factor_in_place`], and `false` also when a pivot falls to `margin` times its
 /// diagonal element or below: when an unknown is determined by the others to that
 /// relative precision, f64 has lost it (`margin` 1e-12 keeps four digits of sixteen).
 /// Scale-free: the test compares each unknown's variance given the others with its own.
-pub fn factor_in_place_with_margin<const D: usize>(a: &mut Mat<D>, margin: f64) -> bool {
+#[expect(
+    clippy::arithmetic_side_effects,
+    reason = "T is f32 or f64 (Scalar's only implementations): float arithmetic cannot panic"
+)]
+pub fn factor_in_place_with_margin<T: Scalar, const D: usize>(
+    a: &mut [[T; D]; D],
+    margin: T,
+) -> bool {
     for j in 0..D {
         let ajj = at(a, j, j);
         let mut d = ajj;
@@ -110,10 +167,10 @@ pub fn factor_in_place_with_margin<const D: usize>(a: &mut Mat<D>, margin: f64) 
             let v = at(a, j, k);
             d -= v * v;
         }
-        if !(d > margin * ajj && d > 0.0 && d.is_finite()) {
+        if !(d > margin * ajj && d > T::ZERO && d.finite()) {
             return false;
         }
-        let djj = libm::sqrt(d);
+        let djj = d.sqrt();
         set(a, j, j, djj);
         for i in j.saturating_add(1)..D {
             let mut s = at(a, i, j);
@@ -131,13 +188,17 @@ pub fn factor_in_place_with_margin<const D: usize>(a: &mut Mat<D>, margin: f64) 
 /// multiply-adds), then the upper triangle of the product (about D³/6) and its mirror.
 /// About a third of the work of D separate solves, D instead of 2·D² divisions (which
 /// matters where f64 is emulated in software), and no second matrix on the stack.
-pub fn invert_factor_in_place<const D: usize>(m: &mut Mat<D>) {
+#[expect(
+    clippy::arithmetic_side_effects,
+    reason = "T is f32 or f64 (Scalar's only implementations): float arithmetic cannot panic"
+)]
+pub fn invert_factor_in_place<T: Scalar, const D: usize>(m: &mut [[T; D]; D]) {
     // W = L⁻¹ row by row: W_ij = −(Σ_{k=j}^{i−1} L_ik W_kj)/L_ii. Going through j in
     // ascending order, row i still holds L from column j on; rows above hold W.
     for i in 0..D {
-        let inv_d = 1.0 / at(m, i, i);
+        let inv_d = T::ONE / at(m, i, i);
         for j in 0..i {
-            let mut s = 0.0;
+            let mut s = T::ZERO;
             for k in j..i {
                 s += at(m, i, k) * at(m, k, j);
             }
@@ -149,7 +210,7 @@ pub fn invert_factor_in_place<const D: usize>(m: &mut Mat<D>) {
     // the diagonal W_jj is overwritten last in its column, after its last use.
     for j in 0..D {
         for i in 0..=j {
-            let mut s = 0.0;
+            let mut s = T::ZERO;
             for k in j..D {
                 s += at(m, k, i) * at(m, k, j);
             }

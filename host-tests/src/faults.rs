@@ -568,8 +568,15 @@ impl FaultRow {
                     fig.clean_flags += usize::from(!flags.is_empty());
                 } else if delay.is_nan() && caught {
                     if std::env::var("FAULT_DEBUG").is_ok() {
-                        let st = sol.sats.iter().find(|s| Some(s.sat) == victim).map(|s| s.status);
-                        eprintln!("since {since} victim {victim:?} {st:?} integ {:?}", sol.integrity);
+                        let st = sol
+                            .sats
+                            .iter()
+                            .find(|s| Some(s.sat) == victim)
+                            .map(|s| s.status);
+                        eprintln!(
+                            "since {since} victim {victim:?} {st:?} integ {:?}",
+                            sol.integrity
+                        );
                     }
                     delay = since;
                 }

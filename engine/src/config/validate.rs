@@ -27,6 +27,9 @@ pub enum Problem {
     NoSystem,
     /// The signal belongs to another system.
     SignalOfOtherSystem,
+    /// A probability other than the built-in table's, in a build without the engine's
+    /// `any-probability` feature.
+    NotTabulated,
 }
 
 /// A configuration the engine refuses: the field (its path in the TOML form, e.g.
@@ -51,6 +54,9 @@ impl fmt::Display for ConfigError {
             Problem::EmptySpan => f.write_str("the lower end is not below the upper end"),
             Problem::NoSystem => f.write_str("no system is enabled"),
             Problem::SignalOfOtherSystem => f.write_str("the signal belongs to another system"),
+            Problem::NotTabulated => f.write_str(
+                "only the default probability is built in: enable the engine feature `any-probability`",
+            ),
         }
     }
 }
@@ -229,6 +235,18 @@ impl Config {
         let i = &self.integrity;
         range("integrity.false_alarm", i.false_alarm, 1e-9, 0.5)?;
         range("integrity.integrity_risk", i.integrity_risk, 1e-9, 0.5)?;
+        #[cfg(not(feature = "any-probability"))]
+        if !crate::integrity::table::tabulated(i.false_alarm, i.integrity_risk) {
+            let field = if crate::integrity::table::tabulated(i.false_alarm, 1e-3) {
+                "integrity.integrity_risk"
+            } else {
+                "integrity.false_alarm"
+            };
+            return Err(ConfigError {
+                field,
+                problem: Problem::NotTabulated,
+            });
+        }
         range(
             "integrity.max_exclusions",
             f64::from(i.max_exclusions),

@@ -110,7 +110,7 @@ impl Real for f32 {
         f64::from(self)
     }
     fn cos(self) -> Self {
-        libm::cosf(self)
+        crate::trig::cos_f32(self)
     }
     fn abs(self) -> Self {
         libm::fabsf(self)

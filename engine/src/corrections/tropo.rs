@@ -36,13 +36,18 @@ impl ZenithDelay {
     /// atmosphere, common practice).
     pub fn standard_atmosphere(lat_rad: f64, h_m: f64) -> Self {
         let h = h_m.clamp(-500.0, 11_000.0);
-        // x^5.2568 as exp(5.2568·ln x): the same value to a few ulp, without the general
-        // power routine (2.5 KB of flash on the target; exp is linked anyway).
-        let p = 1013.25 * libm::exp(5.2568 * libm::log(1.0 - 2.2557e-5 * h));
+        // x^5.2568 as exp(5.2568·ln x), in single precision: without the general power
+        // routine (2.5 KB of flash on the target), and with the f32 exponential and
+        // logarithm (1.2 KB less than the f64 ones); the delay moves by under a micrometre
+        // (tropo_tests.rs).
+        let p = 1013.25
+            * f64::from(libm::expf(
+                5.2568 * libm::logf((1.0 - 2.2557e-5 * h) as f32),
+            ));
         let t = 288.15 - 6.5e-3 * h;
         // Saturation vapour pressure (Magnus form, common practice), 50 % humidity.
         let tc = t - 273.15;
-        let e = 0.5 * 6.1078 * libm::exp(17.27 * tc / (tc + 237.3));
+        let e = 0.5 * 6.1078 * f64::from(libm::expf((17.27 * tc / (tc + 237.3)) as f32));
         Self::saastamoinen(p, t, e, lat_rad, h)
     }
 

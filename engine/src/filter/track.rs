@@ -67,19 +67,6 @@ pub(crate) struct Context<'a> {
     pub time: GnssTime,
 }
 
-/// What a tracked epoch gave.
-#[expect(
-    clippy::large_enum_variant,
-    reason = "returned by value; no heap to box into"
-)]
-pub(crate) enum Step {
-    /// A filtered, held or predicted fix.
-    Fix(Fix, Notes),
-    /// Tracking ended (or never started): the engine solves by least squares and starts
-    /// the filter again from that fix.
-    Lost(FilterEvent),
-}
-
 /// What the filter noticed at an epoch besides its fix, for the integrity indicators.
 #[derive(Clone, Copy, Debug, Default, PartialEq)]
 pub(crate) struct Notes {
@@ -97,13 +84,22 @@ pub(crate) struct Notes {
 /// what happened so far.
 pub(crate) struct Predicted<'a> {
     site: Site<'a>,
+    /// Pseudoranges the gate refused.
+    gated: u8,
     notes: Notes,
 }
 
+impl Predicted<'_> {
+    /// The local frame at the predicted position.
+    pub fn frame(&self) -> &crate::frames::LocalFrame {
+        &self.site.frame
+    }
+}
+
 /// The first half of a tracked epoch: predicts across the gap, computes the corrections at
-/// the predicted position and each pseudorange's innovation (into `residual_m`, fate
-/// pending), and re-seats the clock on a clock event. The engine then runs the residual
-/// test on those innovations and calls [`update`].
+/// the predicted position and each pseudorange's innovation (into `residual_m`), re-seats
+/// the clock on a clock event, and gates each innovation (the ones that pass stay pending).
+/// The engine then runs the residual test on the pending innovations and calls [`update`].
 // Not inlined: its frame and the least-squares one are never on the stack together
 // (docs/firmware.md).
 #[inline(never)]
@@ -157,8 +153,10 @@ pub(crate) fn predict<'a>(
     for m in meas.iter_mut() {
         m.out.residual_m -= shift;
     }
+    let gated = gate_all(&tr.state, meas, ctx.cfg);
     Ok(Predicted {
         site,
+        gated,
         notes: Notes {
             event: if shift != 0.0 {
                 FilterEvent::ClockReseated
@@ -173,22 +171,29 @@ pub(crate) fn predict<'a>(
 }
 
 /// The second half of a tracked epoch: updates with the pseudoranges and range rates still
-/// pending (gated one by one), then the hold, the divergence test and the fix.
+/// pending (gated and tested before), then the hold, the divergence test and the fix,
+/// written into `out` (in place: a fix is half a kilobyte). `Err` when tracking ended.
 #[inline(never)]
 pub(crate) fn update(
     tracked: &mut Option<Tracked>,
     ctx: &Context<'_>,
     meas: &mut [Measurement],
     predicted: Predicted<'_>,
-) -> Step {
+    out: &mut Result<Fix, crate::solution::NoFixReason>,
+) -> Result<Notes, FilterEvent> {
     let Some(tr) = tracked.as_mut() else {
-        return Step::Lost(FilterEvent::Started);
+        return Err(FilterEvent::Started);
     };
-    let Predicted { site, mut notes } = predicted;
+    let Predicted {
+        site,
+        gated,
+        mut notes,
+    } = predicted;
     let dt = notes.dt_s;
     let f = &ctx.cfg.filter;
     let held = tr.still.held();
-    let tally = update_all(&mut tr.state, meas, ctx.cfg, held.then_some(dt));
+    let mut tally = update_all(&mut tr.state, meas, ctx.cfg, held.then_some(dt));
+    tally.gated = gated;
     if held && tally.motion {
         tr.still = Stillness::Moving;
         notes.event = FilterEvent::HoldReleased;
@@ -206,7 +211,7 @@ pub(crate) fn update(
         .push(tally.nis_sum as f32, tally.tested, tally.gated);
     if tr.window.diverged() {
         *tracked = None;
-        return Step::Lost(FilterEvent::RestartedDiverged);
+        return Err(FilterEvent::RestartedDiverged);
     }
     let source = match (tally.applied, tr.still.held()) {
         (0, _) => FixSource::Predicted,
@@ -215,7 +220,7 @@ pub(crate) fn update(
     };
     if tally.applied == 0 && ctx.time.since(tr.updated).as_secs_f64() > f.max_coast_s {
         *tracked = None;
-        return Step::Lost(FilterEvent::CoastEnded);
+        return Err(FilterEvent::CoastEnded);
     }
     let fix = report(&Report {
         state: &tr.state,
@@ -229,10 +234,13 @@ pub(crate) fn update(
         site: &site,
     });
     match fix {
-        Some(fix) if fix_plausible(&fix, ctx.cfg) => Step::Fix(fix, notes),
+        Some(fix) if fix_plausible(&fix, ctx.cfg) => {
+            *out = Ok(fix);
+            Ok(notes)
+        }
         _ => {
             *tracked = None;
-            Step::Lost(FilterEvent::RestartedDiverged)
+            Err(FilterEvent::RestartedDiverged)
         }
     }
 }
@@ -243,11 +251,13 @@ fn fix_plausible(fix: &Fix, cfg: &Config) -> bool {
     (lo..=hi).contains(&fix.geodetic.height_m)
 }
 
-/// A filter started from a least-squares fix: position and clocks with the fix's largest
-/// position variance (at least 1 m²), the Doppler velocity and drift when the fix has them,
-/// else zero ± 30 m/s and zero ± 300 m/s (a TCXO's ±1 ppm).
+/// Starts the filter in `tracked` from a least-squares fix (written in place: the state is
+/// a kilobyte): position and clocks with the fix's largest position variance (at least
+/// 1 m²), the Doppler velocity and drift when the fix has them, else zero ± 30 m/s and
+/// zero ± 300 m/s (a TCXO's ±1 ppm). `None` when the fix cannot start a filter.
 #[inline(never)]
-pub(crate) fn start(fix: &Fix, t: GnssTime) -> Option<Tracked> {
+pub(crate) fn start(tracked: &mut Option<Tracked>, fix: &Fix, t: GnssTime) {
+    *tracked = None;
     let c = fix.covariance_enu_m2;
     let pos_var = (c[0][0].max(c[1][1]).max(c[2][2])).max(1.0);
     let (velocity, vel_var, drift, drift_var) = match fix.velocity {
@@ -266,7 +276,7 @@ pub(crate) fn start(fix: &Fix, t: GnssTime) -> Option<Tracked> {
             .flatten()
             .map_or(0.0, |b| b - gps)
     };
-    let state = FilterState::from_fix(&FixPrior {
+    let Ok(state) = FilterState::from_fix(&FixPrior {
         position_m: fix.ecef_m,
         position_var_m2: pos_var,
         velocity_mps: velocity,
@@ -277,15 +287,16 @@ pub(crate) fn start(fix: &Fix, t: GnssTime) -> Option<Tracked> {
         clock_drift_var_m2ps2: drift_var,
         isb_m: [isb(1), isb(2)],
         isb_var_m2: 100.0,
-    })
-    .ok()?;
-    Some(Tracked {
+    }) else {
+        return;
+    };
+    *tracked = Some(Tracked {
         state,
         time: t,
         updated: t,
         still: Stillness::Moving,
         window: NisWindow::default(),
-    })
+    });
 }
 
 /// The lower median of `values` (O(n²) comparisons, no sorting code: n ≤ 32).
@@ -375,12 +386,47 @@ impl Spread {
     }
 }
 
-/// Gates each pending pseudorange and range rate on its own innovation (χ² (1) against the
-/// prior `S = hᵀPh + R`), applies the rest in one batch (with zero-velocity rows while held
-/// and still), and records in each measurement what became of it. A range rate that fails
-/// its gate marks its satellite as a reflection and widens its pseudorange's σ by the
-/// configured factor (a reflected path's Doppler differs from the direct one's). `held` is
-/// the time since the last epoch, s, when the position is held.
+/// Gates each pending pseudorange and range rate on its own innovation (χ²(1) against the
+/// prior `S = hᵀPh + R`), marking the refused pseudoranges [`Fate::Gated`] and keeping each
+/// range rate's innovation. A range rate that fails its gate marks its satellite as a
+/// reflection and widens its pseudorange's σ by the configured factor (a reflected path's
+/// Doppler differs from the direct one's). Returns how many pseudoranges were refused.
+#[inline(never)]
+fn gate_all(state: &FilterState, meas: &mut [Measurement], cfg: &Config) -> u8 {
+    let gate = cfg.filter.gate;
+    let mut gated = 0u8;
+    for m in meas.iter_mut().filter(|m| m.out.fate == Fate::Pending) {
+        let (c, o) = (&mut m.sat, &mut m.out);
+        let u = [-o.row[0], -o.row[1], -o.row[2]];
+        if let Some(rate) = c.range_rate_mps {
+            let nu = rate - predicted_rate(state, c, u);
+            let s = doppler_sigma(cfg, c);
+            let nis = nu * nu / state.innovation_variance(&MeasurementRow::range_rate(u), s * s);
+            o.rate_innovation_mps = Some(nu as f32);
+            // NaN fails the gate too.
+            o.rate_gated = nis.is_nan() || nis > gate;
+            if o.rate_gated && !c.reflection {
+                c.reflection = true;
+                o.sigma_m *= cfg.integrity.reflection_sigma_factor;
+            }
+        }
+        let r = range_variance(cfg, o);
+        let row = MeasurementRow::pseudorange(u, c.system());
+        let nu = o.residual_m;
+        let nis = nu * nu / state.innovation_variance(&row, r);
+        // NaN (a zero S) fails the gate too.
+        if nis.is_nan() || nis > gate {
+            o.fate = Fate::Gated { nis: nis as f32 };
+            gated = gated.saturating_add(1);
+        }
+    }
+    gated
+}
+
+/// Applies the pending pseudoranges (gated and tested before) and the range rates that
+/// passed their gate in one batch (with zero-velocity rows while held and still), and
+/// records in each measurement what became of it. `held` is the time since the last epoch,
+/// s, when the position is held.
 #[inline(never)]
 fn update_all(
     state: &mut FilterState,
@@ -388,7 +434,6 @@ fn update_all(
     cfg: &Config,
     held: Option<f64>,
 ) -> Tally {
-    let gate = cfg.filter.gate;
     let mut batch = Batch::new();
     let (mut ranges, mut rates) = (Spread::default(), Spread::default());
     let mut t = Tally {
@@ -400,50 +445,42 @@ fn update_all(
         motion: false,
         ranges_only: false,
     };
-    for m in meas.iter_mut().filter(|m| m.out.fate == Fate::Pending) {
-        let (c, o) = (&mut m.sat, &mut m.out);
+    for m in meas
+        .iter_mut()
+        .filter(|m| matches!(m.out.fate, Fate::Pending | Fate::Gated { .. }))
+    {
+        let (c, o) = (&m.sat, &mut m.out);
         let u = [-o.row[0], -o.row[1], -o.row[2]];
-        let rate = c.range_rate_mps.map(|rate| {
-            let nu = rate - predicted_rate(state, c, u);
-            let s = doppler_sigma(cfg, c);
-            let row = MeasurementRow::range_rate(u);
-            let nis = nu * nu / state.innovation_variance(&row, s * s);
-            (nu, s, row, nis <= gate)
-        });
-        let mut r = range_variance(cfg, o);
-        if rate.is_some_and(|(.., ok)| !ok) && !c.reflection {
-            c.reflection = true;
-            r *= cfg.integrity.reflection_sigma_factor * cfg.integrity.reflection_sigma_factor;
-        }
+        let r = range_variance(cfg, o);
         let nu = o.residual_m;
-        let row = MeasurementRow::pseudorange(u, c.system());
         let w = 1.0 / r;
         if held.is_some() {
             ranges.add(nu, w);
         }
-        let nis = nu * nu / state.innovation_variance(&row, r);
-        // NaN (a zero S) fails the gate too.
-        if nis.is_nan() || nis > gate {
-            o.fate = Fate::Gated { nis: nis as f32 };
-            t.gated = t.gated.saturating_add(1);
-            continue;
-        }
-        if batch.add_weighted(&row, nu, w).is_err() {
+        let row = MeasurementRow::pseudorange(u, c.system());
+        if o.fate != Fate::Pending || batch.add_weighted(&row, nu, w).is_err() {
+            o.rate_innovation_mps = None;
             continue;
         }
         o.fate = Fate::Used;
         t.applied = t.applied.saturating_add(1);
-        let Some((nu, s, row, ok)) = rate else {
+        let Some(nu) = o.rate_innovation_mps.map(f64::from) else {
             continue;
         };
+        let s = doppler_sigma(cfg, c);
         let w = 1.0 / (s * s);
         if held.is_some() {
             rates.add(nu, w);
         }
-        if ok && batch.add_weighted(&row, nu, w).is_ok() {
-            o.rate_innovation_mps = Some(nu as f32);
-            t.rates = t.rates.saturating_add(1);
+        if o.rate_gated
+            || batch
+                .add_weighted(&MeasurementRow::range_rate(u), nu, w)
+                .is_err()
+        {
+            o.rate_innovation_mps = None;
+            continue;
         }
+        t.rates = t.rates.saturating_add(1);
     }
     if let Some(dt) = held {
         let by_rates = rates.shows_motion().unwrap_or(false);

@@ -19,9 +19,9 @@
 //!   position without each satellite) by closed forms, without re-solving.
 
 pub mod chi2;
+pub(crate) mod default_table;
 pub(crate) mod fde;
 pub mod ncx2;
-pub(crate) mod protect;
 pub mod raim;
 pub(crate) mod signals;
 pub mod slope;

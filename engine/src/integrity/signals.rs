@@ -19,19 +19,23 @@ const MIN_SATS: usize = 4;
 /// chance.
 const MIN_UNIFORM_SATS: usize = 6;
 
-/// The lower median of up to 32 values (O(n²) comparisons: no sorting code).
-fn median(values: &[f32]) -> Option<f32> {
-    let half = values.len() / 2;
-    values.iter().copied().find(|&v| {
-        let below = values.iter().filter(|&&w| w < v).count();
-        let at_most = values.iter().filter(|&&w| w <= v).count();
-        below <= half && half < at_most
-    })
+/// A measurement's C/N0 less what a line-of-sight signal gains at its elevation seen from
+/// `at` (ECEF, m), with `up` the unit vertical there; `None` without a C/N0.
+fn excess(m: &Measurement, at: [f64; 3], up: [f32; 3]) -> Option<f32> {
+    let c = m.sat.cn0_dbhz?;
+    // The difference in f64, the rest in f32 (2 m in 20,000 km is nothing here); the
+    // pseudorange stands in for the range: a receiver clock error of even a millisecond
+    // (300 km) moves sin(E) by under 2 %, nothing for a C/N0 expectation.
+    let d = sub(m.sat.pos, at).map(|x| x as f32);
+    let sin_el = (d[0] * up[0] + d[1] * up[1] + d[2] * up[2]) / m.sat.pr_m as f32;
+    Some(c - ZENITH_GAIN_DB * sin_el.max(0.0))
 }
 
 /// Marks as reflections the measurements whose C/N0 lies more than the configured margin
-/// below the epoch's level at their elevation, seen from `at` (ECEF, m; the last fix), and
-/// multiplies their σ factor. Returns how many.
+/// below the epoch's level (the lower median of every satellite's C/N0 less its elevation
+/// gain) at their elevation, seen from `at` (ECEF, m; the last fix), and multiplies their
+/// σ factor. Returns how many. O(n²) comparisons for the median, no sorting code.
+#[inline(never)]
 pub(crate) fn mark_reflections(
     meas: &mut [Measurement],
     at: [f64; 3],
@@ -42,27 +46,34 @@ pub(crate) fn mark_reflections(
         return 0;
     }
     // Geocentric up: within 0.2° of the ellipsoid's normal, ample for a C/N0 expectation.
-    let up = [at[0] / r, at[1] / r, at[2] / r];
-    let excess = |m: &Measurement| {
-        let c = m.sat.cn0_dbhz?;
-        let d = sub(m.sat.pos, at);
-        let sin_el = (d[0] * up[0] + d[1] * up[1] + d[2] * up[2]) / norm(d);
-        Some(c - ZENITH_GAIN_DB * sin_el.max(0.0) as f32)
-    };
-    let mut values: heapless::Vec<f32, 32> = heapless::Vec::new();
-    for v in meas.iter().filter_map(excess) {
-        let _ = values.push(v);
+    let up = at.map(|x| (x / r) as f32);
+    // Each satellite's excess once (up to 32), then their lower median.
+    let mut values = [0.0f32; 32];
+    let mut n = 0usize;
+    for (v, e) in values
+        .iter_mut()
+        .zip(meas.iter().filter_map(|m| excess(m, at, up)))
+    {
+        *v = e;
+        n = n.saturating_add(1);
     }
-    if values.len() < MIN_SATS {
+    let values = values.get(..n).unwrap_or(&[]);
+    if n < MIN_SATS {
         return 0;
     }
-    let Some(level) = median(&values) else {
+    let half = n / 2;
+    let level = values.iter().copied().find(|&v| {
+        let below = values.iter().filter(|&&w| w < v).count();
+        let at_most = values.iter().filter(|&&w| w <= v).count();
+        below <= half && half < at_most
+    });
+    let Some(level) = level else {
         return 0;
     };
     let limit = level - cfg.reflection_margin_db as f32;
     let mut count = 0u8;
     for m in meas.iter_mut() {
-        if excess(m).is_some_and(|e| e < limit) {
+        if excess(m, at, up).is_some_and(|e| e < limit) {
             m.sat.reflection = true;
             m.sat.cn0_factor *= cfg.reflection_sigma_factor as f32;
             count = count.saturating_add(1);
@@ -101,7 +112,7 @@ pub(crate) fn jammed(drop_db: f32, n: usize, cfg: &IntegrityConfig) -> bool {
 /// spread): whole-millisecond steps are the receiver steering its clock, a receiver event.
 pub(crate) fn odd_clock_jump(shift_m: f64) -> bool {
     const MS_M: f64 = crate::sat::SPEED_OF_LIGHT * 1e-3;
-    let ms = libm::round(shift_m / MS_M);
+    let ms = libm::floor(shift_m / MS_M + 0.5);
     (shift_m - ms * MS_M).abs() > 300.0
 }
 

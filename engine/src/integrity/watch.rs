@@ -4,7 +4,6 @@
 use crate::measurements::record::{Fate, Measurement};
 use crate::sat::SatId;
 use crate::time::GnssTime;
-use heapless::Vec;
 
 /// Satellites kept out at once; a further exclusion replaces the one released soonest.
 const KEPT: usize = 4;
@@ -20,8 +19,9 @@ const LEVEL_GAP_S: f64 = 60.0;
 /// Integrity's memory.
 #[derive(Clone, Debug, PartialEq)]
 pub(crate) struct Watch {
-    /// Satellites kept out, with the time they may be tested again.
-    kept: Vec<(SatId, GnssTime), KEPT>,
+    /// Satellites kept out, with the time they may be tested again (a time in the past:
+    /// a free slot).
+    kept: [(SatId, GnssTime); KEPT],
     /// Recent mean C/N0, dB-Hz, and the time of its last update.
     level: Option<(f32, GnssTime)>,
 }
@@ -30,41 +30,45 @@ impl Watch {
     /// Nothing remembered.
     pub const fn new() -> Self {
         Watch {
-            kept: Vec::new(),
+            kept: [(SatId::gps(1), GnssTime::EPOCH); KEPT],
             level: None,
         }
     }
 
-    /// Marks [`Fate::KeptOut`] every measurement of a satellite still kept out at `t`, and
-    /// forgets the ones whose time is over (they are tested again).
-    pub fn keep_out(&mut self, meas: &mut [Measurement], t: GnssTime) {
-        self.kept.retain(|(_, until)| *until > t);
+    /// Marks [`Fate::KeptOut`] every measurement of a satellite still kept out at `t` (the
+    /// others are tested again).
+    pub fn keep_out(&self, meas: &mut [Measurement], t: GnssTime) {
         for m in meas.iter_mut() {
-            if self.kept.iter().any(|(s, _)| *s == m.sat.id) {
+            if self
+                .kept
+                .iter()
+                .any(|(s, until)| *s == m.sat.id && *until > t)
+            {
                 m.out.fate = Fate::KeptOut;
             }
         }
     }
 
-    /// Remembers the satellites the residual test excluded this epoch until `t + hold_s`.
-    /// (A pseudorange the filter's gate refuses is tested again at the next epoch: a gate
-    /// refusal is often one multipath spike, and a satellite kept out for it would be lost
-    /// for nothing.)
+    /// Remembers the satellites the residual test excluded this epoch until `t + hold_s`,
+    /// each in its own slot if it has one, else in the slot released soonest. (A pseudorange
+    /// the filter's gate refuses is tested again at the next epoch: a gate refusal is often
+    /// one multipath spike, and a satellite kept out for it would be lost for nothing.)
     pub fn remember(&mut self, meas: &[Measurement], t: GnssTime, hold_s: f64) {
         let Some(hold) = crate::Duration::from_secs_f64(hold_s) else {
             return;
         };
         let until = t.plus(hold);
         for m in meas {
-            if !matches!(m.out.fate, Fate::Excluded { .. }) || hold_s <= 0.0 {
+            if !matches!(m.out.fate, Fate::Excluded { .. }) {
                 continue;
             }
-            if let Some(e) = self.kept.iter_mut().find(|(s, _)| *s == m.sat.id) {
-                e.1 = until;
-            } else if self.kept.push((m.sat.id, until)).is_err() {
-                if let Some(e) = self.kept.iter_mut().min_by_key(|(_, u)| *u) {
-                    *e = (m.sat.id, until);
-                }
+            let id = m.sat.id;
+            let slot = self
+                .kept
+                .iter_mut()
+                .min_by_key(|(s, u)| if *s == id { GnssTime::EPOCH } else { *u });
+            if let Some(slot) = slot {
+                *slot = (id, until);
             }
         }
     }

@@ -123,8 +123,11 @@ pub(crate) struct Outcome {
     /// Partial derivatives row (−unit line of sight), kept for the post-fit residual and
     /// the velocity solution.
     pub row: [f64; 3],
-    /// The navigation filter applied the range rate: its innovation, m/s.
+    /// The range rate's innovation in the navigation filter, m/s: kept once it is applied
+    /// (cleared when it is not).
     pub rate_innovation_mps: Option<f32>,
+    /// The range rate failed the filter's gate.
+    pub rate_gated: bool,
 }
 
 impl Outcome {

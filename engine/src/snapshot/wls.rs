@@ -20,7 +20,7 @@ use crate::config::Config;
 use crate::corrections::iono::IonoCoefficients;
 use crate::corrections::site::Site;
 use crate::frames::{dot, norm, sub, Geodetic, LocalFrame};
-use crate::linalg::{add, Cholesky6, Mat, Mat6};
+use crate::linalg::{add, Cholesky6, Mat, Mat6, Scalar};
 use crate::measurements::record::{Fate, Measurement};
 use crate::sat::SPEED_OF_LIGHT;
 use crate::solution::{Dop, Fix, FixKind, FixSource, IonoCorrection, NoFixReason};
@@ -253,7 +253,11 @@ fn finish(f: &FinishInput<'_>, meas: &mut [Measurement]) -> Result<Fix, NoFixRea
 /// lower triangle and diagonal of a 6×6 normal matrix: the four non-zeros of the row, and
 /// only what the Cholesky factor reads (the least squares, the filter's DOP and the
 /// residual-test slopes all build their matrices so).
-pub(crate) fn add_range_row(m: &mut Mat6, row: [f64; 3], sys: usize, w: f64) {
+#[expect(
+    clippy::arithmetic_side_effects,
+    reason = "T is f32 or f64 (Scalar's only implementations): float arithmetic cannot panic"
+)]
+pub(crate) fn add_range_row<T: Scalar>(m: &mut [[T; 6]; 6], row: [T; 3], sys: usize, w: T) {
     // Nine multiplications: the clock coefficient is 1.
     let [x, y, z] = row;
     let (xw, yw, zw) = (x * w, y * w, z * w);
@@ -272,10 +276,10 @@ pub(crate) fn add_range_row(m: &mut Mat6, row: [f64; 3], sys: usize, w: f64) {
 
 /// A unit diagonal for the clock of each system without a satellite, so that the 6×6
 /// matrix stays regular whatever the systems present.
-pub(crate) fn pin_absent_clocks(m: &mut Mat6, present: &[bool; 3]) {
+pub(crate) fn pin_absent_clocks<T: Scalar>(m: &mut [[T; 6]; 6], present: &[bool; 3]) {
     for (k, p) in present.iter().enumerate() {
         if !p {
-            add(m, k.saturating_add(3), k.saturating_add(3), 1.0);
+            add(m, k.saturating_add(3), k.saturating_add(3), T::ONE);
         }
     }
 }

@@ -407,6 +407,7 @@ fn vectors(r: &mut Runner, write: bool) {
         ("gen_chi2.py", "chi2_scipy.csv"),
         ("gen_ncx2.py", "ncx2_scipy.csv"),
         ("gen_slopes.py", "slopes_numpy.csv"),
+        ("gen_thresholds.py", "thresholds_default.csv"),
         ("gen_filter.py", "filter_filterpy.csv"),
     ] {
         println!("\nxtask: == regenerate {file}");
