@@ -76,6 +76,8 @@ fn record(time: GnssTime, with_fix: bool) -> EpochRecord {
         wake_start: false,
         truth_velocity_ecef_mps: None,
         filter_event: trackfix_engine::FilterEvent::None,
+        integrity: trackfix_engine::Integrity::default(),
+        reflected_truth: vec![],
         sats: vec![],
     }
 }
