@@ -437,12 +437,16 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
     /// The integrity of the epoch's fix: its state and protection levels from the residual
     /// test's verdict.
     fn assess(
-        &self,
+        &mut self,
         result: &Result<Fix, NoFixReason>,
         verdict: &Verdict,
         meas: &[Measurement],
     ) -> Integrity {
-        let excluded = meas.iter().filter(|m| m.out.excluded()).count();
+        let limit = self.one_dof_limit();
+        let excluded = meas
+            .iter()
+            .filter(|m| crate::integrity::watch::excluded(m.out.fate, limit))
+            .count();
         let mut out = Integrity {
             statistic: verdict.statistic as f32,
             threshold: verdict.threshold as f32,
@@ -471,6 +475,15 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             };
         }
         out
+    }
+
+    /// The residual test's threshold for one degree of freedom: beyond it, the filter's
+    /// innovation test excludes at the residual test's false-alarm probability.
+    fn one_dof_limit(&mut self) -> f32 {
+        let c = self.config.integrity;
+        self.thresholds
+            .get(1, c.false_alarm, c.integrity_risk)
+            .map_or(f32::INFINITY, |(t, _)| t as f32)
     }
 
     /// The interference and spoofing indicators of the epoch.
@@ -507,8 +520,15 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
                 flags.insert(Flags::INCONSISTENT_MOTION);
             }
         }
-        if continuous && notes.moved_without_doppler {
-            flags.insert(Flags::DOPPLER_MISMATCH);
+        // The hold's release test runs at 0.999: the flag asks the integrity test's own
+        // false-alarm probability of the same spread.
+        if let (true, Some((x, k))) = (continuous, notes.moved_without_doppler) {
+            let t = self
+                .thresholds
+                .get(usize::from(k), c.false_alarm, c.integrity_risk);
+            if t.is_some_and(|(t, _)| f64::from(x) > t) {
+                flags.insert(Flags::DOPPLER_MISMATCH);
+            }
         }
         flags
     }

@@ -311,7 +311,9 @@ impl Flags {
     pub const CLOCK_JUMP: Flags = Flags(4);
     /// The fix moved farther from the last one than `integrity.max_speed_mps` allows.
     pub const INCONSISTENT_MOTION: Flags = Flags(8);
-    /// The asset moved although its Doppler says it stands still.
+    /// The asset moved although its Doppler says it stands still: a held position's
+    /// pseudoranges spread beyond the residual test's threshold while its range rates
+    /// showed no motion.
     pub const DOPPLER_MISMATCH: Flags = Flags(16);
 
     /// Every flag with its name, in bit order.

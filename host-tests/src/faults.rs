@@ -17,7 +17,7 @@
 //!   delay to the flag and count flags raised in the clean part.
 
 use crate::synth::{self, Constellation};
-use crate::truth::atmosphere;
+use crate::truth::{atmosphere, clock as truth_clock};
 use nalgebra::{DMatrix, DVector};
 use rand::{Rng, SeedableRng};
 use rand_distr::{Distribution, Normal};
@@ -26,7 +26,7 @@ use statrs::distribution::{Binomial, DiscreteCDF};
 use trackfix_engine::config::FilterMode;
 use trackfix_engine::{
     Config, Engine, Epoch, Flags, Geodetic, GnssTime, IntegrityState, LocalFrame, Observation,
-    SatId, SatStatus, Solution, System,
+    SatId, SatStatus, Solution, System, SPEED_OF_LIGHT,
 };
 
 /// Observations per epoch (GPS and Galileo in view at 10°: at most about 24).
@@ -267,18 +267,30 @@ fn draw_place(rng: &mut impl Rng) -> [f64; 3] {
     .to_ecef()
 }
 
-/// One satellite in view: its id, true pseudorange, elevation (rad) and ENU line of sight.
+/// One satellite in view: its id, true pseudorange, true range rate (m/s; the satellite's
+/// clock drift included, as a Doppler measures it), elevation (rad) and ENU line of sight.
 struct InView {
     sat: SatId,
     pr_m: f64,
+    rate_mps: f64,
     el: f64,
     los_enu: [f64; 3],
 }
 
-/// The satellites above [`HORIZON_DEG`] at `rx` at true time `t` (receiver clock exact).
-fn in_view(c: &Constellation, t: GnssTime, rx: [f64; 3], signals_from: [f64; 3]) -> Vec<InView> {
+/// The satellites above [`HORIZON_DEG`] at `rx` at true time `t` (receiver clock exact),
+/// with the signals as received at `signals_from` moving at `velocity` (ECEF, m/s): the
+/// receiver itself, or a spoofer's false position. The range rate is the central difference
+/// of the true pseudorange over ±0.5 s.
+fn in_view(
+    c: &Constellation,
+    t: GnssTime,
+    rx: [f64; 3],
+    signals_from: [f64; 3],
+    velocity: [f64; 3],
+) -> Vec<InView> {
     let frame = LocalFrame::at_ecef(rx);
     let mut out = Vec::new();
+    let at = |dt: f64| [0, 1, 2].map(|k| signals_from[k] + velocity[k] * dt);
     for eph in &c.ephemerides {
         let (pr, sat) = synth::true_pseudorange(eph, t, signals_from, 0.0);
         let (_, el) = frame.az_el(sat);
@@ -287,9 +299,12 @@ fn in_view(c: &Constellation, t: GnssTime, rx: [f64; 3], signals_from: [f64; 3])
         }
         let d = frame.enu(sat);
         let n = (d[0] * d[0] + d[1] * d[1] + d[2] * d[2]).sqrt();
+        let (after, _) = synth::true_pseudorange(eph, t.add_seconds(0.5), at(0.5), 0.0);
+        let (before, _) = synth::true_pseudorange(eph, t.add_seconds(-0.5), at(-0.5), 0.0);
         out.push(InView {
             sat: eph.sat,
             pr_m: pr,
+            rate_mps: after - before,
             el,
             los_enu: [d[0] / n, d[1] / n, d[2] / n],
         });
@@ -372,7 +387,7 @@ impl FaultRow {
             engine.reset_time();
             let t = toe.add_seconds(rng.random_range(-5_400.0..5_400.0));
             let rx = draw_place(&mut rng);
-            let view = in_view(&constellation, t, rx, rx);
+            let view = in_view(&constellation, t, rx, rx, [0.0; 3]);
             let sigma: Vec<f64> = view.iter().map(|v| hypothesis_sigma(&cfg, v.el)).collect();
             let mut victim = None;
             if self.kind == FaultKind::Bias {
@@ -502,7 +517,14 @@ impl FaultRow {
                 } else {
                     rx
                 };
-                let view = in_view(&constellation, t, rx, from);
+                let velocity = if self.kind == FaultKind::Spoofer && attacked {
+                    let ax = frame.axes;
+                    let (e, n) = (walk * heading.sin(), walk * heading.cos());
+                    [0, 1, 2].map(|k| ax[0][k] * e + ax[1][k] * n)
+                } else {
+                    [0.0; 3]
+                };
+                let view = in_view(&constellation, t, rx, from, velocity);
                 if biased && attacked && victim.is_none() && !view.is_empty() {
                     victim = Some(view[rng.random_range(0..view.len())].sat);
                 }
@@ -542,6 +564,10 @@ impl FaultRow {
                     let signal = synth::primary_signal(v.sat.system);
                     let mut o = Observation::code(v.sat, signal, pr);
                     o.cn0_dbhz = Some(cn0 as f32);
+                    // Doppler as a tracker reports it: 5 cm/s of noise at 45 dB-Hz (common
+                    // practice), scaled like the code noise.
+                    let rate = v.rate_mps + 0.05 * sigma / sigma0 * unit.sample(&mut rng);
+                    o.doppler_hz = Some(-rate * truth_clock::frequency_hz(signal) / SPEED_OF_LIGHT);
                     let _ = epoch.push(o);
                 }
                 let Ok(sol) = engine.process(&epoch) else {
@@ -567,17 +593,6 @@ impl FaultRow {
                 if !attacked {
                     fig.clean_flags += usize::from(!flags.is_empty());
                 } else if delay.is_nan() && caught {
-                    if std::env::var("FAULT_DEBUG").is_ok() {
-                        let st = sol
-                            .sats
-                            .iter()
-                            .find(|s| Some(s.sat) == victim)
-                            .map(|s| s.status);
-                        eprintln!(
-                            "since {since} victim {victim:?} {st:?} integ {:?}",
-                            sol.integrity
-                        );
-                    }
                     delay = since;
                 }
             }

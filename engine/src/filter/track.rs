@@ -76,8 +76,9 @@ pub(crate) struct Notes {
     pub clock_shift_m: f64,
     /// Time since the previous epoch, s.
     pub dt_s: f64,
-    /// A held asset's pseudoranges showed motion while its Dopplers showed none.
-    pub moved_without_doppler: bool,
+    /// A held asset's pseudoranges showed motion while its Dopplers (at least four) showed
+    /// none: their spread statistic and its degrees of freedom.
+    pub moved_without_doppler: Option<(f32, u8)>,
 }
 
 /// A tracked epoch between its prediction and its update: the site of the corrections and
@@ -165,7 +166,7 @@ pub(crate) fn predict<'a>(
             },
             clock_shift_m: shift,
             dt_s: dt,
-            moved_without_doppler: false,
+            moved_without_doppler: None,
         },
     })
 }
@@ -349,40 +350,60 @@ struct Tally {
     nis_sum: f64,
     /// A held asset's innovations show motion (its velocity was freed).
     motion: bool,
-    /// Only its pseudoranges did: its range rates (at least four) showed none.
-    ranges_only: bool,
+    /// Only its pseudoranges did (their spread and its dof): its range rates (at least
+    /// four) showed none.
+    ranges_only: Option<(f32, u8)>,
 }
 
-/// The weighted spread of innovations about their weighted mean, `Σ w ν² − (Σ w ν)²/Σ w`:
-/// χ² with n − 1 degrees of freedom when they differ only by noise and a common offset
-/// (the clock bias or drift), whatever that offset (common practice: a residual test with
-/// the common mode removed).
+/// The weighted spread of innovations about their weighted mean, `Σ w ν² − (Σ w ν)²/Σ w`,
+/// leaving out the innovation of largest `w ν²`: χ² with n − 2 degrees of freedom when they
+/// differ only by noise and a common offset (the clock bias or drift), whatever that offset
+/// (common practice: a residual test with the common mode removed). Leaving the largest out
+/// keeps one faulty or reflected satellite from releasing a hold (catching it is the
+/// integrity stage's task), where an asset that moved shows in all of them.
 #[derive(Default)]
 struct Spread {
     w: f64,
     wn: f64,
     wn2: f64,
     n: u16,
+    /// The largest `w ν²` so far, with its `w` and `w ν`.
+    largest: (f64, f64, f64),
 }
 
 impl Spread {
     /// Adds an innovation of weight `w = 1/R`.
     fn add(&mut self, innovation: f64, w: f64) {
+        let (wn, wn2) = (w * innovation, w * innovation * innovation);
         self.w += w;
-        self.wn += w * innovation;
-        self.wn2 += w * innovation * innovation;
+        self.wn += wn;
+        self.wn2 += wn2;
         self.n = self.n.saturating_add(1);
+        if wn2 > self.largest.0 {
+            self.largest = (wn2, w, wn);
+        }
     }
 
-    /// Whether the spread exceeds the 0.999 quantile of χ²(n − 1); `None` below two values.
-    /// (`n` is also how many values it holds.)
+    /// The spread without the largest and its degrees of freedom, n − 2.
+    fn statistic(&self) -> (f32, u8) {
+        let (l2, lw, ln) = self.largest;
+        let (w, wn) = (self.w - lw, self.wn - ln);
+        let x = if w > 0.0 {
+            self.wn2 - l2 - wn * wn / w
+        } else {
+            0.0
+        };
+        (
+            x as f32,
+            u8::try_from(self.n.saturating_sub(2)).unwrap_or(u8::MAX),
+        )
+    }
+
+    /// Whether the spread without the largest exceeds the 0.999 quantile of χ²(n − 2);
+    /// `None` below three values. (`n` is also how many values it holds.)
     fn shows_motion(&self) -> Option<bool> {
-        (self.n >= 2 && self.w > 0.0).then(|| {
-            shows_motion(
-                self.wn2 - self.wn * self.wn / self.w,
-                self.n.saturating_sub(1),
-            )
-        })
+        let (x, k) = self.statistic();
+        (self.n >= 3).then(|| shows_motion(f64::from(x), u16::from(k)))
     }
 }
 
@@ -443,7 +464,7 @@ fn update_all(
         tested: 0,
         nis_sum: 0.0,
         motion: false,
-        ranges_only: false,
+        ranges_only: None,
     };
     for m in meas
         .iter_mut()
@@ -485,7 +506,9 @@ fn update_all(
     if let Some(dt) = held {
         let by_rates = rates.shows_motion().unwrap_or(false);
         t.motion = by_rates || ranges.shows_motion().unwrap_or(false);
-        t.ranges_only = t.motion && !by_rates && rates.n >= 4;
+        if t.motion && !by_rates && rates.n >= 4 {
+            t.ranges_only = Some(ranges.statistic());
+        }
         if t.motion {
             let moved = RELEASE_SIGMA_MPS * dt.max(1.0);
             let _ = state.free_velocity(RELEASE_SIGMA_MPS * RELEASE_SIGMA_MPS);
