@@ -211,21 +211,29 @@ pub fn fault_table(results: &[FaultResult]) -> (String, bool) {
         all_ok &= ok;
         let test_row = matches!(r.row.kind, FaultKind::FaultFree | FaultKind::Bias);
         let dash = || "–".to_string();
-        let (alarms, detected, right, bounded) = if test_row {
-            (
+        let (alarms, detected, right, bounded) = match r.row.kind {
+            FaultKind::FaultFree => (
                 format!(
                     "{} ({}–{})",
                     f.alarms, f.alarm_interval.0, f.alarm_interval.1
                 ),
+                dash(),
+                dash(),
+                format!(
+                    "{} of {} (≤ {})",
+                    f.misleading, f.protected, f.misleading_bound
+                ),
+            ),
+            FaultKind::Bias => (
+                f.alarms.to_string(),
                 cell(f.detection_pct(), t.detection_min_pct, true, 2).0,
                 cell(f.exclusion_pct(), t.exclusion_min_pct, true, 2).0,
                 format!(
                     "{} of {} (≤ {})",
                     f.misleading, f.protected, f.misleading_bound
                 ),
-            )
-        } else {
-            (dash(), dash(), dash(), dash())
+            ),
+            _ => (dash(), dash(), dash(), dash()),
         };
         let (detected, delay, clean) = if test_row {
             (detected, dash(), dash())
@@ -242,14 +250,6 @@ pub fn fault_table(results: &[FaultResult]) -> (String, bool) {
         } else {
             (
                 detected,
-                cell(f.delay_max_s(), t.delay_max_s, false, 0).0,
-                cell(f.clean_flags as f64, t.clean_flags_max, false, 0).0,
-            )
-        };
-        let (_delay, _clean) = if test_row {
-            (dash(), dash())
-        } else {
-            (
                 cell(f.delay_max_s(), t.delay_max_s, false, 0).0,
                 cell(f.clean_flags as f64, t.clean_flags_max, false, 0).0,
             )
