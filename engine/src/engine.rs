@@ -243,11 +243,11 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         let prior = self.tracked.as_ref().map(Tracked::position);
         let prior = prior.or(self.anchor.map(|a| a.ecef_m));
         let reflections = match (icfg.enabled, prior) {
-            (true, Some(at)) => signals::mark_reflections(&mut meas, at, &icfg),
+            (true, Some(at)) => signals::mark_reflections(&mut meas, &epoch.obs, at, &icfg),
             _ => 0,
         };
         if icfg.enabled {
-            self.watch.keep_out(&mut meas, t);
+            self.watch.keep_out(&mut meas, &epoch.obs, t);
         }
         let mut solved = Solved {
             result: Err(NoFixReason::NoConvergence),
@@ -263,7 +263,8 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         let mut integrity = self.assess(&result, &verdict, &meas);
         integrity.reflections = reflections;
         if icfg.enabled {
-            self.watch.remember(&meas, t, icfg.exclusion_hold_s);
+            self.watch
+                .remember(&meas, &epoch.obs, t, icfg.exclusion_hold_s);
             integrity.flags = self.flags(epoch, &notes, &result);
         }
         let filter_event = notes.event;
@@ -353,8 +354,6 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
             vel: state.vel,
             clock_drift_mps: state.clock_drift * SPEED_OF_LIGHT,
             range_rate_mps: range_rate,
-            id: obs.sat,
-            cn0_dbhz: cn0,
             reflection: false,
         })
     }

@@ -51,15 +51,24 @@ struct LogSink;
 impl<const N: usize> FixSink<N> for LogSink {
     fn on_solution(&mut self, k: u32, epoch: &Epoch<N>, sol: &Solution<N>) {
         match &sol.outcome {
-            FixOutcome::Fix(f) => defmt::println!(
-                "FIX {=u32} {=usize} {=u8} {=u64} {=u64} {=u64}",
-                k,
-                epoch.obs.len(),
-                f.used,
-                f.ecef_m[0].to_bits(),
-                f.ecef_m[1].to_bits(),
-                f.ecef_m[2].to_bits()
-            ),
+            FixOutcome::Fix(f) => {
+                defmt::println!(
+                    "FIX {=u32} {=usize} {=u8} {=u64} {=u64} {=u64}",
+                    k,
+                    epoch.obs.len(),
+                    f.used,
+                    f.ecef_m[0].to_bits(),
+                    f.ecef_m[1].to_bits(),
+                    f.ecef_m[2].to_bits()
+                );
+                // The integrity state and the bits of the protection level.
+                defmt::println!(
+                    "INTEGRITY {=u32} {=u8} {=u32}",
+                    k,
+                    sol.integrity.state as u8,
+                    sol.integrity.hpl_m.map_or(0, f32::to_bits)
+                );
+            }
             FixOutcome::NoFix(reason) => {
                 defmt::println!("NOFIX {=u32} {=usize}", k, epoch.obs.len());
                 defmt::info!("no fix: {}", reason);

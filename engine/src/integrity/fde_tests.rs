@@ -1,7 +1,6 @@
 use super::*;
 use crate::integrity::slope::{slopes, Slope, SlopeRow};
 use crate::measurements::record::Candidate;
-use crate::sat::SatId;
 
 /// A local frame whose axes are ECEF's own (east = x, north = y, up = z), so the rows of
 /// the test epoch are its east/north/up rows.
@@ -40,8 +39,6 @@ fn epoch(bias: f64, faulty: usize) -> [Measurement; 8] {
                 vel: [0.0; 3],
                 clock_drift_mps: 0.0,
                 range_rate_mps: None,
-                id: SatId::gps(i as u8 + 1),
-                cn0_dbhz: None,
                 reflection: false,
             },
             out: Outcome {

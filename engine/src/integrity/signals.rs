@@ -4,6 +4,7 @@
 
 use crate::config::IntegrityConfig;
 use crate::frames::{norm, sub};
+use crate::measurements::observation::Observation;
 use crate::measurements::record::Measurement;
 
 /// How much a line-of-sight signal gains from the horizon to the zenith, dB: the gain
@@ -19,10 +20,14 @@ const MIN_SATS: usize = 4;
 /// chance.
 const MIN_UNIFORM_SATS: usize = 6;
 
-/// A measurement's C/N0 less what a line-of-sight signal gains at its elevation seen from
-/// `at` (ECEF, m), with `up` the unit vertical there; `None` without a C/N0.
-fn excess(m: &Measurement, at: [f64; 3], up: [f32; 3]) -> Option<f32> {
-    let c = m.sat.cn0_dbhz?;
+/// A measurement's C/N0 (from its observation in `obs`) less what a line-of-sight signal
+/// gains at its elevation seen from `at` (ECEF, m), with `up` the unit vertical there;
+/// `None` without a usable C/N0.
+fn excess(m: &Measurement, obs: &[Observation], at: [f64; 3], up: [f32; 3]) -> Option<f32> {
+    let c = obs
+        .get(m.index)?
+        .cn0_dbhz
+        .filter(|c| c.is_finite() && *c > 0.0)?;
     // The difference in f64, the rest in f32 (2 m in 20,000 km is nothing here); the
     // pseudorange stands in for the range: a receiver clock error of even a millisecond
     // (300 km) moves sin(E) by under 2 %, nothing for a C/N0 expectation.
@@ -38,6 +43,7 @@ fn excess(m: &Measurement, at: [f64; 3], up: [f32; 3]) -> Option<f32> {
 #[inline(never)]
 pub(crate) fn mark_reflections(
     meas: &mut [Measurement],
+    obs: &[Observation],
     at: [f64; 3],
     cfg: &IntegrityConfig,
 ) -> u8 {
@@ -52,7 +58,7 @@ pub(crate) fn mark_reflections(
     let mut n = 0usize;
     for (v, e) in values
         .iter_mut()
-        .zip(meas.iter().filter_map(|m| excess(m, at, up)))
+        .zip(meas.iter().filter_map(|m| excess(m, obs, at, up)))
     {
         *v = e;
         n = n.saturating_add(1);
@@ -73,7 +79,7 @@ pub(crate) fn mark_reflections(
     let limit = level - cfg.reflection_margin_db as f32;
     let mut count = 0u8;
     for m in meas.iter_mut() {
-        if excess(m, at, up).is_some_and(|e| e < limit) {
+        if excess(m, obs, at, up).is_some_and(|e| e < limit) {
             m.sat.reflection = true;
             m.sat.cn0_factor *= cfg.reflection_sigma_factor as f32;
             count = count.saturating_add(1);

@@ -1,6 +1,7 @@
 //! What integrity remembers between epochs: the satellites kept out after an exclusion and
 //! the recent C/N0 level the jamming indicator compares with.
 
+use crate::measurements::observation::Observation;
 use crate::measurements::record::{Fate, Measurement};
 use crate::sat::SatId;
 use crate::time::GnssTime;
@@ -36,14 +37,13 @@ impl Watch {
     }
 
     /// Marks [`Fate::KeptOut`] every measurement of a satellite still kept out at `t` (the
-    /// others are tested again).
-    pub fn keep_out(&self, meas: &mut [Measurement], t: GnssTime) {
+    /// others are tested again); `obs` are the epoch's observations the measurements index.
+    pub fn keep_out(&self, meas: &mut [Measurement], obs: &[Observation], t: GnssTime) {
         for m in meas.iter_mut() {
-            if self
-                .kept
-                .iter()
-                .any(|(s, until)| *s == m.sat.id && *until > t)
-            {
+            let Some(id) = obs.get(m.index).map(|o| o.sat) else {
+                continue;
+            };
+            if self.kept.iter().any(|(s, until)| *s == id && *until > t) {
                 m.out.fate = Fate::KeptOut;
             }
         }
@@ -55,7 +55,13 @@ impl Watch {
     /// refuses is tested again at the next epoch: in a street canyon reflections come and
     /// go, and keeping gated satellites out for the hold time raised the canyon drive's
     /// 95 % horizontal error from 4.6 to 6.6 m (truck-city-tunnel, docs/integrity.md).
-    pub fn remember(&mut self, meas: &[Measurement], t: GnssTime, hold_s: f64) {
+    pub fn remember(
+        &mut self,
+        meas: &[Measurement],
+        obs: &[Observation],
+        t: GnssTime,
+        hold_s: f64,
+    ) {
         let Some(hold) = crate::Duration::from_secs_f64(hold_s) else {
             return;
         };
@@ -64,7 +70,9 @@ impl Watch {
             if !matches!(m.out.fate, Fate::Excluded { .. }) {
                 continue;
             }
-            let id = m.sat.id;
+            let Some(id) = obs.get(m.index).map(|o| o.sat) else {
+                continue;
+            };
             let slot = self
                 .kept
                 .iter_mut()

@@ -6,7 +6,7 @@
 
 use crate::corrections::site::{SatCorrection, SatInput};
 use crate::frames::{norm, sub};
-use crate::sat::{SatId, System};
+use crate::sat::System;
 use crate::snapshot::wls::sagnac;
 
 /// A screened observation: its index in the epoch, its satellite, what the stages made of it.
@@ -41,10 +41,6 @@ pub(crate) struct Candidate {
     pub clock_drift_mps: f64,
     /// Measured range rate −λ·D, m/s, when a plausible Doppler was reported.
     pub range_rate_mps: Option<f64>,
-    /// The satellite.
-    pub id: SatId,
-    /// C/N0, dB-Hz, when reported.
-    pub cn0_dbhz: Option<f32>,
     /// Taken for a reflection (C/N0 far below what its elevation leads to expect): its
     /// `cn0_factor` carries the extra σ.
     pub reflection: bool,

@@ -6,7 +6,7 @@ use std::path::Path;
 use trackfix_engine::wire::{
     buffer_for, encode_ephemeris, encode_epoch, encode_iono, FrameDecoder, Message,
 };
-use trackfix_engine::{Engine, Epoch, FixOutcome};
+use trackfix_engine::{Engine, Epoch, FixOutcome, Solution};
 use trackfix_harness::replay::{load_nav, to_engine_epoch};
 use trackfix_harness::rinex::ObsReader;
 use trackfix_harness::scenario::generate::{Generator, SCENARIO_IONO};
@@ -143,7 +143,7 @@ pub fn run_host<const N: usize>(stream: &[u8]) -> Vec<String> {
                     let _ = engine.set_ionosphere(i);
                 }
                 Ok(Message::Epoch(e)) => {
-                    lines.push(line(k, &e, engine.process(&e).ok().map(|s| s.outcome)));
+                    lines.push(line(k, &e, engine.process(&e).ok().as_ref()));
                     k += 1;
                 }
                 Err(_) => {}
@@ -153,16 +153,19 @@ pub fn run_host<const N: usize>(stream: &[u8]) -> Vec<String> {
     lines
 }
 
-/// The result line both sides print.
-pub fn line<const N: usize>(k: u32, e: &Epoch<N>, outcome: Option<FixOutcome>) -> String {
-    match outcome {
-        Some(FixOutcome::Fix(f)) => format!(
-            "FIX {k} {} {} {} {} {}",
+/// The result lines both sides print: the fix's position bits, then its integrity state and
+/// the bits of its horizontal protection level.
+pub fn line<const N: usize>(k: u32, e: &Epoch<N>, sol: Option<&Solution<N>>) -> String {
+    match sol.map(|s| (&s.outcome, &s.integrity)) {
+        Some((FixOutcome::Fix(f), i)) => format!(
+            "FIX {k} {} {} {} {} {}\nINTEGRITY {k} {} {}",
             e.obs.len(),
             f.used,
             f.ecef_m[0].to_bits(),
             f.ecef_m[1].to_bits(),
-            f.ecef_m[2].to_bits()
+            f.ecef_m[2].to_bits(),
+            i.state as u8,
+            i.hpl_m.map_or(0, f32::to_bits)
         ),
         _ => format!("NOFIX {k} {}", e.obs.len()),
     }

@@ -197,7 +197,7 @@ pub fn run_firmware(root: &Path, n: usize, frames: &Path) -> Result<Measured, St
     for line in text.lines() {
         let w: Vec<&str> = line.split_whitespace().collect();
         match w.first().copied() {
-            Some("FIX" | "NOFIX") => m.lines.push(w.join(" ")),
+            Some("FIX" | "NOFIX" | "INTEGRITY") => m.lines.push(w.join(" ")),
             Some("COST") if w.len() == 5 => {
                 let p = |i: usize| w[i].parse::<u64>().unwrap_or(0);
                 m.costs.entry(p(2) as usize).or_default().push((p(3), p(4)));
@@ -224,7 +224,8 @@ pub fn host_lines(root: &Path, n: usize, frames: &Path) -> Result<Vec<String>, S
         .collect())
 }
 
-/// Compares target and host lines: identical, or every coordinate within 1 mm.
+/// Compares target and host lines: identical, or every coordinate and protection level
+/// within 1 mm with the same integrity states.
 pub fn compare(target: &[String], host: &[String]) -> Result<String, String> {
     if target.len() != host.len() {
         return Err(format!(
@@ -233,15 +234,31 @@ pub fn compare(target: &[String], host: &[String]) -> Result<String, String> {
             host.len()
         ));
     }
+    let epochs = target
+        .iter()
+        .filter(|l| !l.starts_with("INTEGRITY"))
+        .count();
     if target == host {
         return Ok(format!(
-            "{} epochs, every coordinate bit-identical on target and host",
-            target.len()
+            "{epochs} epochs, every coordinate, integrity state and protection level bit-identical on target and host"
         ));
     }
     let mut worst: f64 = 0.0;
     for (t, h) in target.iter().zip(host) {
         let (tw, hw): (Vec<&str>, Vec<&str>) = (t.split(' ').collect(), h.split(' ').collect());
+        if t.starts_with("INTEGRITY") {
+            // Same state; protection levels (f32 bits) within 1 mm.
+            let level = |w: &[&str]| {
+                f64::from(f32::from_bits(
+                    w.get(3).and_then(|x| x.parse().ok()).unwrap_or(0),
+                ))
+            };
+            if tw.get(..3) != hw.get(..3) {
+                return Err(format!("target {t:?} differs from host {h:?}"));
+            }
+            worst = worst.max((level(&tw) - level(&hw)).abs());
+            continue;
+        }
         if tw.len() != hw.len() || tw.first() != hw.first() || tw.get(..4) != hw.get(..4) {
             return Err(format!("target {t:?} differs from host {h:?}"));
         }
@@ -253,8 +270,7 @@ pub fn compare(target: &[String], host: &[String]) -> Result<String, String> {
     }
     if worst <= 1e-3 {
         Ok(format!(
-            "{} epochs within {worst:.1e} m of the host (not bit-identical)",
-            target.len()
+            "{epochs} epochs within {worst:.1e} m of the host (not bit-identical)"
         ))
     } else {
         Err(format!("target and host differ by up to {worst} m"))
