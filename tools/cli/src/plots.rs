@@ -377,3 +377,68 @@ pub fn dop(path: &Path, title: &str, records: &[EpochRecord]) -> Res {
     draw_broken(&mut c2, &used, MOSS, "used")?;
     root.present().map_err(e)
 }
+
+/// Horizontal error against horizontal protection level, one point per epoch that has both
+/// (a truth and a level), with the diagonal: a point above it is an error the level failed
+/// to bound. (A diagram of the kind the satellite-augmentation community draws to show
+/// integrity performance; common practice.)
+pub fn protection(path: &Path, title: &str, records: &[EpochRecord]) -> Res {
+    use trackfix_engine::IntegrityState;
+    let pts: Vec<(f64, f64, bool)> = records
+        .iter()
+        .filter_map(|r| {
+            let h = f64::from(r.integrity.hpl_m?);
+            let e = r.fix?.enu_error_m?;
+            Some((
+                h,
+                e[0].hypot(e[1]),
+                r.integrity.state == IntegrityState::FaultExcluded,
+            ))
+        })
+        .collect();
+    let lim = max_or(pts.iter().map(|p| p.0.max(p.1)), 10.0) * 1.1;
+    let over = pts.iter().filter(|p| p.1 > p.0).count();
+    let root = SVGBackend::new(path, (560, 560)).into_drawing_area();
+    root.fill(&WHITE).map_err(e)?;
+    let mut c = ChartBuilder::on(&root)
+        .caption(
+            format!("{title}: horizontal error against protection level"),
+            ("sans-serif", 16),
+        )
+        .margin(12)
+        .x_label_area_size(36)
+        .y_label_area_size(50)
+        .build_cartesian_2d(0.0..lim, 0.0..lim)
+        .map_err(e)?;
+    c.configure_mesh()
+        .x_desc("horizontal protection level, metres")
+        .y_desc("horizontal error, metres")
+        .draw()
+        .map_err(e)?;
+    c.draw_series(LineSeries::new(
+        vec![(0.0, 0.0), (lim, lim)],
+        BLACK.stroke_width(1),
+    ))
+    .map_err(e)?
+    .label(format!(
+        "error = level ({over} of {} epochs above)",
+        pts.len()
+    ))
+    .legend(|(x, y)| PathElement::new(vec![(x, y), (x + 18, y)], BLACK));
+    for (excluded, colour, name) in [(false, INK, "verified"), (true, EMBER, "fault excluded")] {
+        let n = pts.iter().filter(|p| p.2 == excluded).count();
+        c.draw_series(
+            pts.iter()
+                .filter(|p| p.2 == excluded)
+                .map(|p| Circle::new((p.0, p.1), 2, colour.mix(0.5).filled())),
+        )
+        .map_err(e)?
+        .label(format!("{name}: {n} epochs"))
+        .legend(move |(x, y)| Circle::new((x + 9, y), 3, colour.filled()));
+    }
+    c.configure_series_labels()
+        .border_style(BLACK)
+        .draw()
+        .map_err(e)?;
+    root.present().map_err(e)
+}

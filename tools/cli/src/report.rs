@@ -7,7 +7,7 @@ use trackfix_harness::metrics::Summary;
 use trackfix_harness::record::EpochRecord;
 
 /// Files a report writes, with what each shows.
-pub const FILES: [(&str, &str); 11] = [
+pub const FILES: [(&str, &str); 13] = [
     ("summary.json", "summary statistics"),
     ("error_time.svg", "position error against time"),
     ("error_cdf.svg", "error distribution"),
@@ -15,9 +15,17 @@ pub const FILES: [(&str, &str); 11] = [
     ("sky.svg", "satellite tracks on the sky"),
     ("residuals.svg", "post-fit residual per satellite"),
     ("dop.svg", "DOP and satellites used against time"),
+    (
+        "protection.svg",
+        "horizontal error against protection level (integrity)",
+    ),
     ("track.gpx", "GPX 1.1 track"),
     ("track.geojson", "GeoJSON track"),
     ("track.csv", "every epoch as CSV"),
+    (
+        "satellites.csv",
+        "every satellite of every epoch: status, test statistic, reflection",
+    ),
     ("track.nmea", "NMEA 0183 GGA/RMC/GSA/GST"),
 ];
 
@@ -30,6 +38,7 @@ pub fn write(dir: &Path, name: &str, records: &[EpochRecord], s: &Summary) -> Re
     w("track.gpx", gpx::write_run(name, records))?;
     w("track.geojson", geojson::write_run(name, records, s))?;
     w("track.csv", csv::write_run(records))?;
+    w("satellites.csv", csv::write_satellites(records))?;
     w("track.nmea", nmea::write_run(records))?;
     plots::error_vs_time(&dir.join("error_time.svg"), name, records)?;
     plots::error_cdf(&dir.join("error_cdf.svg"), name, records)?;
@@ -37,12 +46,20 @@ pub fn write(dir: &Path, name: &str, records: &[EpochRecord], s: &Summary) -> Re
     plots::sky(&dir.join("sky.svg"), name, records)?;
     plots::residuals(&dir.join("residuals.svg"), name, s)?;
     plots::dop(&dir.join("dop.svg"), name, records)?;
+    plots::protection(&dir.join("protection.svg"), name, records)?;
     let mut html = format!(
         "<!doctype html><meta charset=\"utf-8\"><title>Trackfix report: {name}</title>\n\
          <h1>Trackfix report: {name}</h1>\n<p>{} epochs, {} fixes ({:.1} %); horizontal error 50/95 %: \
          {:.2} / {:.2} m; vertical 50/95 %: {:.2} / {:.2} m.</p>\n\
+         <p>Integrity: verified / fault excluded / unavailable / alert {}; median horizontal protection level {}; \
+         epochs whose error exceeds its protection level: {} of {}; epochs with an interference or spoofing flag: {}.</p>\n\
          <p><em>Estimates: not for safety-of-life navigation; follow local regulations and licensed practice.</em></p>\n<ul>\n",
-        s.epochs, s.fixes, s.availability_pct, s.horizontal.p50, s.horizontal.p95, s.vertical.p50, s.vertical.p95
+        s.epochs, s.fixes, s.availability_pct, s.horizontal.p50, s.horizontal.p95, s.vertical.p50, s.vertical.p95,
+        s.integrity.shares_pct().map(|p| format!("{p:.1} %")).join(" / "),
+        s.integrity.hpl50_m.map_or("–".to_string(), |h| format!("{h:.1} m")),
+        s.integrity.misleading,
+        s.integrity.bounded_epochs,
+        s.integrity.flagged
     );
     for (f, what) in FILES {
         html += &format!("<li><a href=\"{f}\">{f}</a>: {what}</li>\n");
