@@ -315,6 +315,17 @@ fn print_summary(s: &Summary) {
             s.horizontal.p50, s.horizontal.p95, s.vertical.p50, s.vertical.p95, s.cep_m
         );
     }
+    let i = &s.integrity;
+    let [v, x, u, a] = i.shares_pct();
+    println!(
+        "integrity: verified {v:.1} %, fault excluded {x:.1} %, unavailable {u:.1} %, alert {a:.1} %; {} epochs flagged{}",
+        i.flagged,
+        if i.bounded_epochs > 0 {
+            format!("; error beyond its protection level in {} of {} epochs", i.misleading, i.bounded_epochs)
+        } else {
+            String::new()
+        }
+    );
 }
 
 fn demo(every: usize, out: Option<&Path>, cfg: Config) -> Result<(), String> {
@@ -323,8 +334,8 @@ fn demo(every: usize, out: Option<&Path>, cfg: Config) -> Result<(), String> {
     let spec = scenario::parse(DEMO, "built-in demo")?;
     let records = scenario::run(&spec, cfg)?;
     println!(
-        "{:>7} {:>11} {:>11} {:>7} {:>6} {:>6} {:>6} {:>6} {:>4} {:>5} fix",
-        "t s", "lat °", "lon °", "h m", "E m", "N m", "U m", "σH m", "sats", "HDOP"
+        "{:>7} {:>11} {:>11} {:>7} {:>6} {:>6} {:>6} {:>6} {:>6} {:>4} {:>5} {:<9} integrity",
+        "t s", "lat °", "lon °", "h m", "E m", "N m", "U m", "σH m", "HPL m", "sats", "HDOP", "fix"
     );
     let t0 = records.first().map(|r| r.time);
     for r in records.iter().step_by(every) {
@@ -333,15 +344,22 @@ fn demo(every: usize, out: Option<&Path>, cfg: Config) -> Result<(), String> {
             (Some(f), _) => {
                 let [e, n, u] = f.enu_error_m.unwrap_or([f64::NAN; 3]);
                 let sigma_h = f.sigma_enu_m[0].hypot(f.sigma_enu_m[1]);
+                let i = &r.integrity;
+                let hpl = i.hpl_m.map_or("–".to_string(), |h| format!("{h:.1}"));
+                let flags: Vec<&str> = i.flags.names().collect();
                 println!(
-                    "{t:>7.0} {:>11.6} {:>11.6} {:>7.1} {e:>6.2} {n:>6.2} {u:>6.2} {sigma_h:>6.2} {:>4} {:>5.2} {}",
-                    f.lat_lon_h[0], f.lat_lon_h[1], f.lat_lon_h[2], f.used, f.hdop, f.source.as_str()
+                    "{t:>7.0} {:>11.6} {:>11.6} {:>7.1} {e:>6.2} {n:>6.2} {u:>6.2} {sigma_h:>6.2} {hpl:>6} {:>4} {:>5.2} {:<9} {}{}",
+                    f.lat_lon_h[0], f.lat_lon_h[1], f.lat_lon_h[2], f.used, f.hdop, f.source.as_str(),
+                    i.state.as_str(),
+                    if flags.is_empty() { String::new() } else { format!(" [{}]", flags.join(", ")) }
                 );
             }
             (None, reason) => println!("{t:>7.0} no fix: {reason:?}"),
         }
     }
-    println!("\n(E/N/U: error against the scenario's truth; σH: the engine's own horizontal 1-σ)");
+    println!(
+        "\n(E/N/U: error against the scenario's truth; σH: the engine's own horizontal 1-σ; HPL: its horizontal protection level)"
+    );
     let s = Summary::of(&records);
     print_summary(&s);
     if let Some(dir) = out {
