@@ -46,3 +46,20 @@ fn a_bad_value_is_refused_by_the_engine_by_field() {
         "snapshot.elevation_mask_deg: 95 is outside 0…60"
     );
 }
+
+// An integrity probability outside (0, 1), or an integrity risk below what the engine can
+// evaluate, read from a file: the engine refuses it naming the key and the range.
+#[test]
+fn a_bad_integrity_probability_is_refused_by_field() {
+    for (text, field) in [
+        ("[integrity]\nfalse_alarm = 1.5\n", "integrity.false_alarm"),
+        ("[integrity]\nfalse_alarm = 0.0\n", "integrity.false_alarm"),
+        ("[integrity]\nintegrity_risk = 1e-15\n", "integrity.integrity_risk"),
+    ] {
+        let c: Config = toml::from_str(text).unwrap();
+        let e = Engine::<12, 16>::new(c).unwrap_err();
+        assert_eq!(e.field, field);
+        assert!(matches!(e.problem, Problem::OutOfRange { .. }), "{e}");
+        assert!(e.to_string().starts_with(field), "{e}");
+    }
+}

@@ -61,3 +61,82 @@ fn filter_fields_are_named() {
     c.filter.gate = f64::INFINITY;
     assert_eq!(c.validate().unwrap_err().problem, Problem::NotFinite);
 }
+
+/// Integrity probabilities outside (0, 1), NaN, or an integrity risk below what the
+/// non-central search can evaluate are refused with the field named, never used.
+#[test]
+fn integrity_fields_are_named() {
+    for (set, field) in [
+        (
+            (|c: &mut Config| c.integrity.false_alarm = 0.0) as fn(&mut Config),
+            "integrity.false_alarm",
+        ),
+        (|c| c.integrity.false_alarm = 1.0, "integrity.false_alarm"),
+        (|c| c.integrity.false_alarm = -0.1, "integrity.false_alarm"),
+        (
+            |c| c.integrity.false_alarm = f64::NAN,
+            "integrity.false_alarm",
+        ),
+        (
+            |c| c.integrity.integrity_risk = 1e-12,
+            "integrity.integrity_risk",
+        ),
+        (
+            |c| c.integrity.integrity_risk = 1.5,
+            "integrity.integrity_risk",
+        ),
+        (
+            |c| c.integrity.integrity_risk = f64::NAN,
+            "integrity.integrity_risk",
+        ),
+        (
+            |c| c.integrity.max_exclusions = 3,
+            "integrity.max_exclusions",
+        ),
+        (
+            |c| c.integrity.exclusion_hold_s = -1.0,
+            "integrity.exclusion_hold_s",
+        ),
+        (
+            |c| c.integrity.reflection_sigma_factor = 0.5,
+            "integrity.reflection_sigma_factor",
+        ),
+        (
+            |c| c.integrity.max_speed_mps = f64::INFINITY,
+            "integrity.max_speed_mps",
+        ),
+    ] {
+        let mut c = Config::default();
+        set(&mut c);
+        assert_eq!(c.validate().unwrap_err().field, field);
+    }
+    let mut c = Config::default();
+    c.integrity.false_alarm = f64::NAN;
+    assert_eq!(c.validate().unwrap_err().problem, Problem::NotFinite);
+}
+
+/// Without the `any-probability` feature only the built-in table's probabilities are
+/// accepted; with it, any in range.
+#[test]
+fn probabilities_outside_the_table() {
+    let mut c = Config::default();
+    c.integrity.false_alarm = 1e-3;
+    let r = c.validate();
+    #[cfg(not(feature = "any-probability"))]
+    assert_eq!(
+        r.unwrap_err(),
+        ConfigError {
+            field: "integrity.false_alarm",
+            problem: Problem::NotTabulated
+        }
+    );
+    #[cfg(feature = "any-probability")]
+    assert!(r.is_ok());
+    let mut c = Config::default();
+    c.integrity.integrity_risk = 1e-5;
+    let r = c.validate();
+    #[cfg(not(feature = "any-probability"))]
+    assert_eq!(r.unwrap_err().field, "integrity.integrity_risk");
+    #[cfg(feature = "any-probability")]
+    assert!(r.is_ok());
+}

@@ -278,6 +278,15 @@ fn test(allow_missing_data: bool) -> ExitCode {
         "cargo",
         &["test", "--workspace", "--release"],
     );
+    // The workspace build unifies the engine's features (the host crates turn on
+    // any-probability); the target's build, with the built-in threshold table only, is
+    // tested on its own.
+    r.run(
+        "engine unit tests without features (built-in integrity table only)",
+        &root,
+        "cargo",
+        &["test", "--release", "-p", "trackfix-engine", "--lib"],
+    );
     r.run(
         "benchmarks compile",
         &root,
