@@ -44,8 +44,11 @@ fn bench(c: &mut Criterion) {
             );
             let mut first = full.clone();
             first.obs.truncate(n);
-            let mut next = first.clone();
-            next.time = t0.add_seconds(1.0);
+            // The next second, observed afresh (the same satellites): a consistent epoch.
+            let later: Epoch<32> = observe_with(&rx, &cons, t0.add_seconds(1.0), &errors, &mut rng);
+            let mut next = later.clone();
+            next.obs
+                .retain(|o| first.obs.iter().any(|f| f.sat == o.sat));
             let mut cfg = Config::default();
             cfg.snapshot.elevation_mask_deg = 5.0;
             cfg.filter.mode = mode;

@@ -54,7 +54,10 @@ fn a_bad_integrity_probability_is_refused_by_field() {
     for (text, field) in [
         ("[integrity]\nfalse_alarm = 1.5\n", "integrity.false_alarm"),
         ("[integrity]\nfalse_alarm = 0.0\n", "integrity.false_alarm"),
-        ("[integrity]\nintegrity_risk = 1e-15\n", "integrity.integrity_risk"),
+        (
+            "[integrity]\nintegrity_risk = 1e-15\n",
+            "integrity.integrity_risk",
+        ),
     ] {
         let c: Config = toml::from_str(text).unwrap();
         let e = Engine::<12, 16>::new(c).unwrap_err();
