@@ -632,6 +632,7 @@ fn test<const N: usize>(
             integrity_risk: c.integrity_risk,
             max_exclusions: c.max_exclusions,
             ure_sigma_m: config.filter.ure_sigma_m,
+            reflection_scale: c.reflection_sigma_factor * c.reflection_sigma_factor,
         },
     )
 }

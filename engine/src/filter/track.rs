@@ -434,7 +434,7 @@ fn gate_all(state: &FilterState, meas: &mut [Measurement], cfg: &Config) -> u8 {
                 o.sigma_m *= cfg.integrity.reflection_sigma_factor;
             }
         }
-        let r = range_variance(cfg, o);
+        let r = range_variance(cfg, c, o);
         let row = MeasurementRow::pseudorange(u, c.system());
         let nu = o.residual_m;
         let nis = nu * nu / state.innovation_variance(&row, r);
@@ -475,7 +475,7 @@ fn update_all(
     {
         let (c, o) = (&m.sat, &mut m.out);
         let u = [-o.row[0], -o.row[1], -o.row[2]];
-        let r = range_variance(cfg, o);
+        let r = range_variance(cfg, c, o);
         let nu = o.residual_m;
         let w = 1.0 / r;
         if held.is_some() {
@@ -547,8 +547,18 @@ fn zero_velocity(batch: &mut Batch, state: &FilterState) {
 }
 
 /// The filter's pseudorange variance (see [`Outcome::test_variance`]).
-fn range_variance(cfg: &Config, o: &Outcome) -> f64 {
-    o.test_variance(cfg.filter.ure_sigma_m)
+fn range_variance(cfg: &Config, c: &Candidate, o: &Outcome) -> f64 {
+    o.test_variance(cfg.filter.ure_sigma_m, reflection_scale(cfg, c))
+}
+
+/// The square of the reflection factor for a suspected reflection, else 1.
+pub(crate) fn reflection_scale(cfg: &Config, c: &Candidate) -> f64 {
+    let f = cfg.integrity.reflection_sigma_factor;
+    if c.reflection {
+        f * f
+    } else {
+        1.0
+    }
 }
 
 /// σ of a range rate: the configured Doppler σ scaled like the pseudorange's by C/N0.

@@ -63,6 +63,8 @@ pub(crate) struct TestSetup<'a, const N: usize> {
     pub integrity_risk: f64,
     pub max_exclusions: u8,
     pub ure_sigma_m: f64,
+    /// The square of the reflection factor (see `Outcome::test_variance`).
+    pub reflection_scale: f64,
     /// The local frame at the fix (or the predicted position).
     pub frame: &'a LocalFrame,
 }
@@ -74,7 +76,14 @@ type Mat6f = [[f32; 6]; 6];
 /// tested residuals' mean `offset` (which the clocks absorb), in f32; `axes` are the local
 /// frame's, in f32 (a direction needs no more). Not inlined: four callers, one copy.
 #[inline(never)]
-fn row_of(m: &Measurement, ure: f32, axes: &[[f32; 3]; 3], offset: f64) -> ([f32; 6], f32, f32) {
+fn row_of(
+    m: &Measurement,
+    (ure, refl): (f32, f32),
+    axes: &[[f32; 3]; 3],
+    offset: f64,
+) -> ([f32; 6], f32, f32) {
+    // As `Outcome::test_variance`: a reflection's factor `refl` (squared) on every term.
+    let scale = if m.sat.reflection { refl } else { 1.0 };
     let o = &m.out;
     let r = o.row.map(|x| x as f32);
     let rot = |a: &[f32; 3]| a[0] * r[0] + a[1] * r[1] + a[2] * r[2];
@@ -83,7 +92,7 @@ fn row_of(m: &Measurement, ure: f32, axes: &[[f32; 3]; 3], offset: f64) -> ([f32
         *c = 1.0;
     }
     let s = o.sigma_m as f32;
-    let var = s * s + ure * ure + o.model_var_m2 as f32;
+    let var = s * s + (ure * ure + o.model_var_m2 as f32) * scale;
     (g, 1.0 / var, (o.residual_m - offset) as f32)
 }
 
@@ -125,7 +134,7 @@ fn scan(
     tested: fn(&Outcome) -> bool,
     inv: &Mat6f,
     fit: &[f32; 6],
-    (ure, axes): (f32, &[[f32; 3]; 3]),
+    (ure, axes): ((f32, f32), &[[f32; 3]; 3]),
     offset: f64,
 ) -> Scan {
     let mut out = Scan {
@@ -164,7 +173,7 @@ pub(crate) fn check<const N: usize>(
     tested: fn(&Outcome) -> bool,
     setup: &mut TestSetup<'_, N>,
 ) -> Verdict {
-    let ure = setup.ure_sigma_m as f32;
+    let ure = (setup.ure_sigma_m as f32, setup.reflection_scale as f32);
     let axes = setup.frame.axes.map(|a| a.map(|x| x as f32));
     let axes = &axes;
     let mut inv: Mat6f = [[0.0; 6]; 6];

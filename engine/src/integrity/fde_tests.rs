@@ -65,6 +65,7 @@ fn run(meas: &mut [Measurement], max_exclusions: u8) -> Verdict {
             integrity_risk: 1e-3,
             max_exclusions,
             ure_sigma_m: 0.0,
+            reflection_scale: 1.0,
         },
     )
 }

@@ -54,7 +54,7 @@ impl Watch {
     /// if it has one, else in the slot released soonest. A pseudorange the filter's gate
     /// refuses is tested again at the next epoch: in a street canyon reflections come and
     /// go, and keeping gated satellites out for the hold time raised the canyon drive's
-    /// 95 % horizontal error from 4.6 to 6.6 m (truck-city-tunnel, docs/integrity.md).
+    /// 95 % horizontal error from 2.8 to 5.1 m (truck-city-tunnel, docs/integrity.md).
     pub fn remember(
         &mut self,
         meas: &[Measurement],

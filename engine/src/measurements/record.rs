@@ -143,10 +143,13 @@ impl Outcome {
     }
 
     /// The variance the residual and innovation tests assume, m²: the code σ model, the
-    /// signal-in-space error `ure_sigma_m` and what the atmosphere models leave. The tests
-    /// need all of them, where the least-squares weights only need the ratios.
-    pub fn test_variance(&self, ure_sigma_m: f64) -> f64 {
-        self.sigma_m * self.sigma_m + ure_sigma_m * ure_sigma_m + self.model_var_m2
+    /// signal-in-space error `ure_sigma_m` and what the atmosphere models leave, the last two
+    /// times `scale` (the square of the reflection factor for a suspected reflection, whose
+    /// σ already carries it, else 1: a reflection's extra path is no better known than its
+    /// code). The tests need all of them, where the least-squares weights only need the
+    /// ratios.
+    pub fn test_variance(&self, ure_sigma_m: f64, scale: f64) -> f64 {
+        self.sigma_m * self.sigma_m + (ure_sigma_m * ure_sigma_m + self.model_var_m2) * scale
     }
 
     /// Takes the corrections of the satellite: elevation and azimuth, the mask (masked, or
