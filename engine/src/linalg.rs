@@ -18,9 +18,9 @@ pub type Mat<const D: usize> = [[f64; D]; D];
 /// A 6×6 matrix, row-major (the position solution's size).
 pub type Mat6 = Mat<6>;
 
-/// The precisions the in-place kernels run in: f64 everywhere a range or a position is
-/// solved, f32 for the integrity geometry (fde.rs shows the loss negligible there, and the
-/// Cortex-M4F computes f32 in hardware).
+/// The precisions the engine's generic code runs in: f64 everywhere a range or a position
+/// is solved, f32 for the integrity geometry (fde.rs shows the loss negligible there) and the
+/// broadcast ionosphere (iono_tests.rs), which the Cortex-M4F computes in hardware.
 pub trait Scalar:
     Copy
     + PartialOrd
@@ -40,6 +40,14 @@ pub trait Scalar:
     fn sqrt(self) -> Self;
     /// Neither NaN nor infinite.
     fn finite(self) -> bool;
+    /// The value of an f64 in this precision.
+    fn of(v: f64) -> Self;
+    /// This value as an f64.
+    fn to_f64(self) -> f64;
+    /// The cosine (the engine's own: `trig`).
+    fn cos(self) -> Self;
+    /// The absolute value.
+    fn abs(self) -> Self;
 }
 
 impl Scalar for f64 {
@@ -51,6 +59,18 @@ impl Scalar for f64 {
     fn finite(self) -> bool {
         self.is_finite()
     }
+    fn of(v: f64) -> Self {
+        v
+    }
+    fn to_f64(self) -> f64 {
+        self
+    }
+    fn cos(self) -> Self {
+        crate::trig::cos(self)
+    }
+    fn abs(self) -> Self {
+        libm::fabs(self)
+    }
 }
 
 impl Scalar for f32 {
@@ -61,6 +81,18 @@ impl Scalar for f32 {
     }
     fn finite(self) -> bool {
         self.is_finite()
+    }
+    fn of(v: f64) -> Self {
+        v as f32
+    }
+    fn to_f64(self) -> f64 {
+        f64::from(self)
+    }
+    fn cos(self) -> Self {
+        crate::trig::cos_f32(self)
+    }
+    fn abs(self) -> Self {
+        libm::fabsf(self)
     }
 }
 

@@ -8,28 +8,14 @@ use criterion::{criterion_group, criterion_main, BatchSize, Criterion};
 use rand::SeedableRng;
 use std::hint::black_box;
 use trackfix_engine::config::FilterMode;
-use trackfix_engine::{Config, Engine, Epoch, Geodetic, GnssTime, IonoCoefficients, System};
-use trackfix_harness::synth::{constellation, observe_with, ErrorModel, StaticReceiver};
+use trackfix_engine::{Config, Engine, Epoch, GnssTime, System};
+use trackfix_harness::synth::observe_with;
+
+mod common;
 
 fn bench(c: &mut Criterion) {
     let t0 = GnssTime::from_week_tow(2300, 100_000.0).unwrap();
-    let cons = constellation(5, t0, &[System::Gps, System::Galileo]);
-    let rx = StaticReceiver {
-        position: Geodetic::from_degrees(47.62, 8.91, 412.0).to_ecef(),
-        horizon_deg: 5.0,
-        clock_bias_m: 1_000.0,
-        inter_system_bias_m: 3.0,
-    };
-    let iono = IonoCoefficients {
-        alpha: [1.49e-8, 2.24e-8, -1.19e-7, -1.19e-7],
-        beta: [1.17e5, 1.80e5, -1.31e5, -4.95e5],
-    };
-    let errors = ErrorModel {
-        sigma_m: 0.5,
-        constant_sigma: false,
-        iono: Some((iono, 1.0)),
-        troposphere: true,
-    };
+    let (cons, rx, iono, errors) = common::scene(t0, &[System::Gps, System::Galileo]);
     let mut rng = rand::rngs::StdRng::seed_from_u64(9);
     let full: Epoch<32> = observe_with(&rx, &cons, t0, &errors, &mut rng);
     assert!(full.obs.len() >= 12, "only {} in view", full.obs.len());

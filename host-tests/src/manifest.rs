@@ -187,15 +187,21 @@ impl Manifest {
 /// The fault-injection table (Markdown) and whether every row passed.
 pub fn fault_table(results: &[FaultResult]) -> (String, bool) {
     let mut s = String::new();
-    let _ = writeln!(
-        s,
-        "\nFault injection (Monte Carlo, fixed seeds; host-tests/src/faults.rs): residual-test alarms against the binomial 99 % interval of the configured false-alarm probability, detection and right exclusions, epochs whose error exceeds the protection level against the binomial 99 % bound of the integrity risk, and the delay from an attack to its flag.\n"
+    heading(
+        &mut s,
+        "Fault injection (Monte Carlo, fixed seeds; host-tests/src/faults.rs): residual-test alarms against the binomial 99 % interval of the configured false-alarm probability, detection and right exclusions, epochs whose error exceeds the protection level against the binomial 99 % bound of the integrity risk, and the delay from an attack to its flag.",
+        &[
+            "row",
+            "epochs",
+            "tested",
+            "alarms (99 % interval)",
+            "detected %",
+            "right exclusion %",
+            "error > PL (bound)",
+            "flag delay max s",
+            "clean-part flags",
+        ],
     );
-    let _ = writeln!(
-        s,
-        "| row | epochs | tested | alarms (99 % interval) | detected % | right exclusion % | error > PL (bound) | flag delay max s | clean-part flags |"
-    );
-    let _ = writeln!(s, "|---|---|---|---|---|---|---|---|---|");
     let mut all_ok = true;
     for r in results {
         let f = match &r.figures {
@@ -369,6 +375,23 @@ fn run_dataset(row: &DatasetRow) -> RowResult {
     }
 }
 
+impl RowResult {
+    /// Both runs with their limits: the default (filtered) one, then snapshot-only.
+    pub fn runs(&self) -> [(&'static str, &RowOutcome, &Threshold); 2] {
+        [
+            ("filtered", &self.outcome, &self.threshold),
+            ("snapshot", &self.snapshot, &self.snapshot_threshold),
+        ]
+    }
+}
+
+/// A table's introduction, header row and separator (Markdown).
+fn heading(s: &mut String, intro: &str, columns: &[&str]) {
+    let _ = writeln!(s, "\n{intro}\n");
+    let _ = writeln!(s, "| {} |", columns.join(" | "));
+    let _ = writeln!(s, "|{}", "---|".repeat(columns.len()));
+}
+
 /// One measured value against its limit: (text, passed).
 fn cell(measured: f64, limit: Option<f64>, at_least: bool, decimals: usize) -> (String, bool) {
     if measured.is_nan() {
@@ -403,22 +426,23 @@ pub fn table(results: &[RowResult]) -> (String, bool) {
     let _ = writeln!(s, "|---|---|---|---|---|---|---|---|---|---|");
     let mut all_ok = true;
     for r in results {
-        for (run, outcome, t) in [
-            ("filtered", &r.outcome, &r.threshold),
-            ("snapshot", &r.snapshot, &r.snapshot_threshold),
-        ] {
+        for (run, outcome, t) in r.runs() {
             all_ok &= accuracy_line(&mut s, &r.name, run, r.kind, outcome, t);
         }
     }
-    let _ = writeln!(
-        s,
-        "\nThe filtered runs: share of epochs per fix kind, and the filter's own figures (see below).\n"
+    heading(
+        &mut s,
+        "The filtered runs: share of epochs per fix kind, and the filter's own figures (see below).",
+        &[
+            "row",
+            "snapshot / filtered / predicted / held / none %",
+            "held spread 95 % m",
+            "held drift m",
+            "position change at a clock step m",
+            "H error after an outage m",
+            "H error / σ_H, 95 %",
+        ],
     );
-    let _ = writeln!(
-        s,
-        "| row | snapshot / filtered / predicted / held / none % | held spread 95 % m | held drift m | position change at a clock step m | H error after an outage m | H error / σ_H, 95 % |"
-    );
-    let _ = writeln!(s, "|---|---|---|---|---|---|---|");
     for r in results {
         if let RowOutcome::Ran(m) = &r.outcome {
             let f = &m.filter;
@@ -445,20 +469,21 @@ pub fn table(results: &[RowResult]) -> (String, bool) {
             );
         }
     }
-    let _ = writeln!(
-        s,
-        "\nIntegrity, both runs: share of epochs per state, epochs with an interference or spoofing flag, the median horizontal protection level, epochs whose error exceeds its protection level (of those with a level), and the share of reflected satellite-epochs caught (synthetic canyon truth).\n"
+    heading(
+        &mut s,
+        "Integrity, both runs: share of epochs per state, epochs with an interference or spoofing flag, the median horizontal protection level, epochs whose error exceeds its protection level (of those with a level), and the share of reflected satellite-epochs caught (synthetic canyon truth).",
+        &[
+            "row",
+            "run",
+            "verified / excluded / unavailable / alert %",
+            "flagged epochs",
+            "HPL 50 % m",
+            "error > PL",
+            "reflections caught %",
+        ],
     );
-    let _ = writeln!(
-        s,
-        "| row | run | verified / excluded / unavailable / alert % | flagged epochs | HPL 50 % m | error > PL | reflections caught % |"
-    );
-    let _ = writeln!(s, "|---|---|---|---|---|---|---|");
     for r in results {
-        for (run, outcome, t) in [
-            ("filtered", &r.outcome, &r.threshold),
-            ("snapshot", &r.snapshot, &r.snapshot_threshold),
-        ] {
+        for (run, outcome, t) in r.runs() {
             if let RowOutcome::Ran(m) = outcome {
                 let i = &m.integrity;
                 let cells = [

@@ -2,6 +2,7 @@
 //!
 //! Cost: 1 cos, 1 sin-free polynomial pair, a handful of multiplies per satellite.
 
+use crate::linalg::Scalar;
 use crate::sat::SPEED_OF_LIGHT;
 use crate::trig::{cos, sin};
 
@@ -72,57 +73,12 @@ impl IonoCoefficients {
     }
 }
 
-/// The arithmetic the model needs, in the precision of the caller.
-trait Real:
-    Copy
-    + PartialOrd
-    + core::ops::Add<Output = Self>
-    + core::ops::Sub<Output = Self>
-    + core::ops::Mul<Output = Self>
-    + core::ops::Div<Output = Self>
-{
-    fn of(v: f64) -> Self;
-    fn to_f64(self) -> f64;
-    fn cos(self) -> Self;
-    fn abs(self) -> Self;
-}
-
-impl Real for f64 {
-    fn of(v: f64) -> Self {
-        v
-    }
-    fn to_f64(self) -> f64 {
-        self
-    }
-    fn cos(self) -> Self {
-        cos(self)
-    }
-    fn abs(self) -> Self {
-        libm::fabs(self)
-    }
-}
-
-impl Real for f32 {
-    fn of(v: f64) -> Self {
-        v as f32
-    }
-    fn to_f64(self) -> f64 {
-        f64::from(self)
-    }
-    fn cos(self) -> Self {
-        crate::trig::cos_f32(self)
-    }
-    fn abs(self) -> Self {
-        libm::fabsf(self)
-    }
-}
-
 /// IS-GPS-200 Figure 20-4 in precision `T`: the L1 delay in seconds.
 #[expect(
     clippy::arithmetic_side_effects,
-    reason = "T is f32 or f64 (the only implementations of Real): float arithmetic cannot panic"
+    reason = "T is f32 or f64 (the only implementations of Scalar): float arithmetic cannot panic"
 )]
-fn klobuchar<T: Real>(
+fn klobuchar<T: Scalar>(
     (alpha, beta): &([T; 4], [T; 4]),
     lat_rad: T,
     lon_rad: T,
@@ -161,7 +117,7 @@ fn klobuchar<T: Real>(
     }
 }
 
-fn clamp<T: Real>(v: T, lo: T, hi: T) -> T {
+fn clamp<T: Scalar>(v: T, lo: T, hi: T) -> T {
     if v < lo {
         lo
     } else if v > hi {
@@ -171,7 +127,7 @@ fn clamp<T: Real>(v: T, lo: T, hi: T) -> T {
     }
 }
 
-fn max<T: Real>(a: T, b: T) -> T {
+fn max<T: Scalar>(a: T, b: T) -> T {
     if a > b {
         a
     } else {
