@@ -8,6 +8,18 @@ fn standard_atmosphere_total_zenith_delay_at_sea_level() {
     assert!((2.3..=2.5).contains(&total), "{total}");
 }
 
+/// The wet part (issue 10's troposphere item): the standard atmosphere's 50 % humidity at
+/// 15 °C gives about 8.5 cm of zenith wet delay at sea level (../shared/data README: "a
+/// standard-atmosphere wet delay (about 8.5 cm zenith)"), falling with height as the
+/// water vapour does.
+#[test]
+fn standard_atmosphere_wet_delay() {
+    let z = ZenithDelay::standard_atmosphere(50f64.to_radians(), 0.0);
+    assert!((z.wet_m - 0.085).abs() < 0.002, "{}", z.wet_m);
+    let high = ZenithDelay::standard_atmosphere(50f64.to_radians(), 2_000.0);
+    assert!(high.wet_m < z.wet_m && high.hydrostatic_m < z.hydrostatic_m);
+}
+
 /// The standard atmosphere in single precision against the same formulas in f64: under a
 /// micrometre of zenith delay from −500 m to 11 km.
 #[test]
