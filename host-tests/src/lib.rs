@@ -3,6 +3,7 @@
 //! the firmware links.
 
 pub mod data;
+pub mod dgnss;
 pub mod export;
 pub mod faults;
 pub mod manifest;
