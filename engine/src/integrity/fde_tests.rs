@@ -184,3 +184,21 @@ fn offsets_leave_the_statistic() {
         b.statistic
     );
 }
+
+/// Two faulty satellites: the first exclusion leaves the test failing, the second makes it
+/// pass (eight satellites, one system: 4 degrees of freedom, 2 after both); with one
+/// exclusion allowed the fix is an alert.
+#[test]
+fn a_second_exclusion_where_geometry_allows() {
+    let mut meas = epoch(80.0, 1);
+    meas[6].out.residual_m = -60.0;
+    let v = run(&mut meas, 2);
+    assert_eq!((v.excluded, v.dof), (2, 2));
+    assert!(v.passed, "{v:?}");
+    assert!(matches!(meas[1].out.fate, Fate::Excluded { .. }));
+    assert!(matches!(meas[6].out.fate, Fate::Excluded { .. }));
+    let mut once = epoch(80.0, 1);
+    once[6].out.residual_m = -60.0;
+    let v = run(&mut once, 1);
+    assert!(!v.passed && v.excluded == 1);
+}
