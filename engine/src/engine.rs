@@ -444,7 +444,7 @@ impl<const N: usize, const EPH: usize> Engine<N, EPH> {
         let limit = self.one_dof_limit();
         let excluded = meas
             .iter()
-            .filter(|m| crate::integrity::watch::excluded(m.out.fate, limit))
+            .filter(|m| m.out.fate.is_exclusion(limit))
             .count();
         let mut out = Integrity {
             statistic: verdict.statistic as f32,

@@ -106,6 +106,18 @@ fn set<T: Scalar, const D: usize>(m: &mut [[T; D]; D], i: usize, j: usize, v: T)
     }
 }
 
+/// The lower median of `values` (O(n²) comparisons and no sorting code: the engine's lists
+/// hold at most an epoch's observations); `None` when empty or when NaN leaves no value
+/// with half the others on each side.
+pub(crate) fn lower_median<T: Copy + PartialOrd>(values: &[T]) -> Option<T> {
+    let half = values.len() / 2;
+    values.iter().copied().find(|&v| {
+        let below = values.iter().filter(|&&w| w < v).count();
+        let at_most = values.iter().filter(|&&w| w <= v).count();
+        below <= half && half < at_most
+    })
+}
+
 /// Adds `v` to element (i, j); indices outside the matrix are ignored.
 #[expect(
     clippy::arithmetic_side_effects,

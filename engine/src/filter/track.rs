@@ -300,16 +300,6 @@ pub(crate) fn start(tracked: &mut Option<Tracked>, fix: &Fix, t: GnssTime) {
     });
 }
 
-/// The lower median of `values` (O(n²) comparisons, no sorting code: n ≤ 32).
-fn median(values: &[f64]) -> Option<f64> {
-    let half = values.len() / 2;
-    values.iter().copied().find(|&v| {
-        let below = values.iter().filter(|&&w| w < v).count();
-        let at_most = values.iter().filter(|&&w| w <= v).count();
-        below <= half && half < at_most
-    })
-}
-
 /// Re-seats the clock bias when the median innovation exceeds what the prediction allows
 /// (see the module documentation). Returns the shift of the bias, m (0 when none).
 fn reseat_on_clock_event(state: &mut FilterState, innovations: &[f64]) -> f64 {
@@ -321,7 +311,7 @@ fn reseat_on_clock_event(state: &mut FilterState, innovations: &[f64]) -> f64 {
     if innovations.iter().all(|v| v.abs() <= limit) {
         return 0.0;
     }
-    let Some(m) = median(innovations) else {
+    let Some(m) = crate::linalg::lower_median(innovations) else {
         return 0.0;
     };
     if m.abs() <= limit {

@@ -67,13 +67,7 @@ pub(crate) fn mark_reflections(
     if n < MIN_SATS {
         return 0;
     }
-    let half = n / 2;
-    let level = values.iter().copied().find(|&v| {
-        let below = values.iter().filter(|&&w| w < v).count();
-        let at_most = values.iter().filter(|&&w| w <= v).count();
-        below <= half && half < at_most
-    });
-    let Some(level) = level else {
+    let Some(level) = crate::linalg::lower_median(values) else {
         return 0;
     };
     let limit = level - cfg.reflection_margin_db as f32;

@@ -102,13 +102,3 @@ impl Watch {
         drop
     }
 }
-
-/// Whether a pseudorange's fate is an exclusion: by the residual test, or by the filter's
-/// innovation test beyond `limit`.
-pub(crate) fn excluded(fate: Fate, limit: f32) -> bool {
-    match fate {
-        Fate::Excluded { .. } | Fate::KeptOut => true,
-        Fate::Gated { nis } => nis > limit,
-        _ => false,
-    }
-}

@@ -101,6 +101,19 @@ pub(crate) enum Fate {
     KeptOut,
 }
 
+impl Fate {
+    /// Whether this fate keeps the pseudorange out of the fix as a fault: excluded by the
+    /// residual test (this epoch or earlier), or refused by the filter's innovation test
+    /// beyond `limit` (the residual test's one-degree threshold).
+    pub fn is_exclusion(self, limit: f32) -> bool {
+        match self {
+            Fate::Excluded { .. } | Fate::KeptOut => true,
+            Fate::Gated { nis } => nis > limit,
+            _ => false,
+        }
+    }
+}
+
 /// What the corrections and the solution made of one measurement.
 #[derive(Clone, Copy, Debug, Default)]
 pub(crate) struct Outcome {
